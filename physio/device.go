@@ -258,7 +258,14 @@ func deviceShare(total Flow, fio2 Fraction) (Flow, error) {
 	if err := checkRange("FiO2", float64(fio2), deviceAirO2, 1, ""); err != nil {
 		return 0, err
 	}
-	return Flow(total.LitresPerMinute() * (float64(fio2) - deviceAirO2) / (1 - deviceAirO2)), nil
+	return Flow(total.LitresPerMinute() * deviceOxygenShare(fio2)), nil
+}
+
+// deviceOxygenShare is (F − 0.21)/0.79, computed so that F = 1 gives
+// exactly 1 (both differences are rounded the same way).
+func deviceOxygenShare(fio2 Fraction) float64 {
+	air := float64(deviceAirO2)
+	return (float64(fio2) - air) / (1 - air)
 }
 
 // HighFlowOxygen returns the oxygen flow in L/min a high-flow nasal cannula
@@ -336,6 +343,9 @@ func SetUpsFor(needed Fraction) []SetUp {
 			out = append(out, SetUp{Device: HighFlow, Flow: o2, FiO2: FiO2Range{needed, needed}, TotalFlow: total})
 		}
 	}
-	sort.SliceStable(out, func(i, j int) bool { return out[i].Flow < out[j].Flow })
+	// Sort on flows rounded to 1e-6 L/min so that float noise (2.9999… from
+	// a blend share) does not reorder set-ups of the same flow.
+	key := func(f Flow) float64 { return math.Round(f.LitresPerMinute() * 1e6) }
+	sort.SliceStable(out, func(i, j int) bool { return key(out[i].Flow) < key(out[j].Flow) })
 	return out
 }

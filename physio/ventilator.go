@@ -64,7 +64,7 @@ func VentilatorOxygen(drive Drive, minuteVolume, bias, leak, driveGas Flow, fio2
 	delivered := minuteVolume.LitresPerMinute() + bias.LitresPerMinute() + leak.LitresPerMinute()
 	var share float64
 	if drive == DriveBlending {
-		share = (float64(fio2) - deviceAirO2) / (1 - deviceAirO2)
+		share = deviceOxygenShare(fio2)
 	} else {
 		share = float64(fio2)
 	}
