@@ -1,0 +1,70 @@
+// Alvea's service worker, version {{.Version}}.
+//
+// - Every resource is precached inside event.waitUntil, so a failed precache
+//   fails the install: a half-cached version never takes control.
+// - Lookups ignore query strings; navigations to any route fall back to the
+//   app shell "/".
+// - A new version waits. It activates only when the page posts
+//   {type: "alvea:activate"}, which the page does when the crew accepts the
+//   update; until then every tab and reload keeps the running version.
+// - Requests to other origins are not handled (the app makes none).
+const cacheName = "alvea-{{.Version}}";
+const resourcesToCache = {{.ResourcesToCache}};
+
+self.addEventListener("install", (event) => {
+  event.waitUntil(precache());
+});
+
+async function precache() {
+  const cache = await caches.open(cacheName);
+  // cache: "reload" skips the HTTP cache so a version never mixes files.
+  await cache.addAll(
+    resourcesToCache.map((url) => new Request(url, { cache: "reload" }))
+  );
+}
+
+self.addEventListener("activate", (event) => {
+  event.waitUntil(
+    (async () => {
+      const keys = await caches.keys();
+      await Promise.all(
+        keys
+          .filter((key) => key !== cacheName)
+          .map((key) => caches.delete(key))
+      );
+      await self.clients.claim();
+    })()
+  );
+});
+
+self.addEventListener("message", (event) => {
+  if (event.data && event.data.type === "alvea:activate") {
+    self.skipWaiting();
+  }
+});
+
+self.addEventListener("fetch", (event) => {
+  const request = event.request;
+  if (request.method !== "GET") {
+    return;
+  }
+  if (new URL(request.url).origin !== self.location.origin) {
+    return;
+  }
+  event.respondWith(respond(request));
+});
+
+async function respond(request) {
+  const cache = await caches.open(cacheName);
+  const hit = await cache.match(request, { ignoreSearch: true });
+  if (hit) {
+    return hit;
+  }
+  if (request.mode === "navigate") {
+    const shell = await cache.match("/");
+    if (shell) {
+      return shell;
+    }
+  }
+  return fetch(request);
+}

@@ -1,0 +1,115 @@
+package ui
+
+import (
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+)
+
+// Shared building blocks for screens. CSS classes (web/alvea.css):
+//
+//	alv-screen     a screen's <section>; its first child is the <h1>
+//	alv-card       a bordered block; alv-card-title for its <h2>
+//	alv-grid       cards side by side (two columns from 1000 px wide)
+//	alv-field      a label, an input with its unit, and the message
+//	alv-input      a text input (at least 44 px tall, large numerals)
+//	alv-unit       the unit beside an input, always visible
+//	alv-error      the message under a field (role="alert")
+//	alv-result     a computed figure: alv-num (large numerals) + alv-unit
+//	alv-how        a <details> "How" disclosure: formula, inputs, source, rounding
+//	alv-plot       a figure holding an SVG plot drawn by the app
+//	alv-seg        a row of toggle buttons (aria-pressed) for one choice
+//	alv-button     a button (alv-primary for the main action)
+//	alv-caution    the clinical caution (see newCaution)
+
+// numberField renders a labelled numeric input with its unit beside it and
+// its message under it. The input uses inputmode="decimal" so a tablet shows
+// the numeric keyboard; aria-invalid and aria-describedby tie the message to
+// the field. onInput receives the text as typed.
+func numberField(id, label, unit, value, message string, onInput func(ctx app.Context, text string)) app.UI {
+	msgID := id + "-msg"
+	input := app.Input().
+		ID(id).
+		Class("alv-input").
+		Type("text").
+		Attr("inputmode", "decimal").
+		Attr("autocomplete", "off").
+		Attr("spellcheck", "false").
+		Value(value).
+		Aria("invalid", message != "").
+		OnInput(func(ctx app.Context, e app.Event) {
+			onInput(ctx, ctx.JSSrc().Get("value").String())
+		})
+	if message != "" {
+		input = input.Aria("describedby", msgID)
+	}
+	return app.Div().Class("alv-field").Body(
+		app.Label().For(id).Text(label),
+		app.Div().Class("alv-input-row").Body(
+			input,
+			app.Span().Class("alv-unit").Aria("hidden", true).Text(unit),
+		),
+		app.If(message != "", func() app.UI {
+			return app.P().ID(msgID).Class("alv-error").Attr("role", "alert").Text(message)
+		}),
+	)
+}
+
+// textField is numberField for free text (no numeric keyboard, no unit).
+func textField(id, label, value, message string, onInput func(ctx app.Context, text string)) app.UI {
+	msgID := id + "-msg"
+	input := app.Input().
+		ID(id).
+		Class("alv-input alv-input-text").
+		Type("text").
+		Attr("autocomplete", "off").
+		Value(value).
+		Aria("invalid", message != "").
+		OnInput(func(ctx app.Context, e app.Event) {
+			onInput(ctx, ctx.JSSrc().Get("value").String())
+		})
+	if message != "" {
+		input = input.Aria("describedby", msgID)
+	}
+	return app.Div().Class("alv-field").Body(
+		app.Label().For(id).Text(label),
+		app.Div().Class("alv-input-row").Body(input),
+		app.If(message != "", func() app.UI {
+			return app.P().ID(msgID).Class("alv-error").Attr("role", "alert").Text(message)
+		}),
+	)
+}
+
+// choice is one option of a segmented control.
+type choice struct{ Value, Label string }
+
+// segmented renders a one-of-many choice as toggle buttons in a fieldset,
+// each at least 44 px, the chosen one aria-pressed. Buttons get the id
+// prefix + "-" + value, for tests.
+func segmented(idPrefix, legend, current string, options []choice, onPick func(ctx app.Context, value string)) app.UI {
+	buttons := make([]app.UI, 0, len(options))
+	for _, o := range options {
+		o := o
+		buttons = append(buttons, app.Button().
+			ID(idPrefix+"-"+o.Value).
+			Type("button").
+			Class("alv-seg-btn").
+			Aria("pressed", o.Value == current).
+			Text(o.Label).
+			OnClick(func(ctx app.Context, e app.Event) { onPick(ctx, o.Value) }))
+	}
+	return app.FieldSet().Class("alv-fieldset").Body(
+		app.Legend().Text(legend),
+		app.Div().Class("alv-seg").Body(buttons...),
+	)
+}
+
+// how renders the "How" disclosure under a computed figure. Later screens
+// fill it with the formula's name, the inputs used, the published source and
+// the rounding direction.
+func how(summary string, body ...app.UI) app.UI {
+	if summary == "" {
+		summary = "How"
+	}
+	return app.Details().Class("alv-how").Body(
+		append([]app.UI{app.Summary().Text(summary)}, body...)...,
+	)
+}
