@@ -1,0 +1,919 @@
+package physio
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+
+	"github.com/shopspring/decimal"
+)
+
+// EngineVersion is the version of the plan computation, reported in every
+// PlanResult so that a stored result can be traced to the engine that made
+// it. It changes whenever a formula, default or rounding of the plan does.
+const EngineVersion = "1.0.0"
+
+// DefaultSpO2TargetPercent is the lowest expected SpO2 a plan accepts
+// without a warning when the policy sets none: 94 %, the lower end of the
+// usual target range 94–98 % of the BTS guideline for oxygen use in adults
+// (Thorax 2017;72(Suppl 1)). Patients at risk of hypercapnic failure have a
+// lower target (88–92 %): set policy.spo2_target_percent.
+const DefaultSpO2TargetPercent = 94.0
+
+// Defaults for a patient value the document does not give. Each use is
+// reported as a PlanAssumption.
+const (
+	DefaultPlanTemperatureC = 37.0 // normal body temperature
+	DefaultPlanPaCO2MmHg    = 40.0 // middle of the normal 35–45 mmHg (common practice)
+)
+
+// Worked trapped-gas examples shown with every plan: a tube cuff filled
+// with air and a small pneumothorax (volumes of our own choosing, for
+// illustration).
+const (
+	planCuffMl         = 10.0
+	planPneumothoraxMl = 500.0
+)
+
+// PlanCaution is the caution shown with every plan.
+const PlanCaution = "Planning aid only: verify against the gauges and the device's own figures; local protocol and medical direction decide."
+
+// TrappedGasCaution is the caution shown with the trapped-gas figures.
+const TrappedGasCaution = "Gas trapped in the body or equipment expands as the pressure falls (Boyle's law). " +
+	"An air-filled tube cuff cannot grow freely, so its pressure rises instead: check cuff pressure with a manometer after the climb and in flight " +
+	"(mucosal perfusion is compromised near 30 cmH2O, Mann 2007). An undrained pneumothorax grows by the same ratio. " +
+	"Local protocol and medical direction decide how to manage them."
+
+// Sources named in the figures.
+const (
+	srcISA      = "U.S. Standard Atmosphere 1976 (NOAA-S/T 76-1562)"
+	srcCabin    = "pressure balance on the U.S. Standard Atmosphere 1976"
+	srcPilot    = "stated in the plan (route.cabin_altitude_ft)"
+	srcAlveolar = "alveolar gas equation, simplified form (Egan's Fundamentals of Respiratory Care)"
+	srcWater    = "Wagner W, Pruss A, J Phys Chem Ref Data 1993;22:783 (IAPWS saturation pressure)"
+	srcInspired = "constant inspired PO2 (common practice in aeromedical transport)"
+	srcAA       = "constant a/A ratio (common practice in aeromedical planning)"
+	srcSev      = "Severinghaus JW, J Appl Physiol 1979;46:599-602, eq. 1"
+	srcSevInv   = "exact inverse of Severinghaus JW, J Appl Physiol 1979;46:599-602, eq. 1"
+	srcBTS      = "BTS guideline for oxygen use in adults, Thorax 2017;72(Suppl 1)"
+	srcBlend    = "oxygen share of a blended flow (common practice)"
+	srcVent     = "ventilator oxygen use (common practice; the device's own figure wins)"
+	srcCylinder = "cylinder factor or water capacity (common practice)"
+	srcReserve  = "reserve policy (common practice; local protocol decides)"
+	srcBoyle    = "Boyle's law"
+	srcMann     = "Boyle's law; Mann C et al., Emerg Med J 2007;24:165-7"
+	srcContent  = "oxygen content (common practice; Huefner 1.34 mL/g)"
+	srcAaAge    = "age/4 + 4 mmHg (common practice, a rule of thumb)"
+	srcPlan     = "this plan"
+)
+
+// ComputePlan runs the whole transport chain on a document: altitudes and
+// pressures of every leg and the cabin; the patient's ground state (PAO2,
+// a/A ratio); PAO2, expected PaO2 and SpO2 and the FiO2 needed on every
+// leg; whether each leg's set-up delivers it, with options if not; the
+// limits where FiO2 1.0 still holds the ground state; oxygen per leg, the
+// need with reserve, usable litres, margin, cylinder changes and the minute
+// the supply runs out; trapped-gas expansion; and coded warnings.
+//
+// Method notes (also reported as assumptions in the result): PaCO2, the
+// respiratory quotient and the a/A ratio are held at their ground values;
+// the alveolar gas equation is the simplified form (the cautious one); a
+// low-flow device is planned at the low end of its FiO2 range; water vapour
+// is the IAPWS saturation pressure at body temperature (47.1 mmHg at 37 °C);
+// reserve minutes are counted at the highest leg flow; cylinders are used in
+// the order listed, each to its residual.
+//
+// Rounding is on the safe side and named in each Figure: oxygen needed,
+// FiO2 needed, altitudes reached and expansion up; usable oxygen, PAO2,
+// PaO2, SpO2, pressures, limits and minutes down.
+//
+// Errors: a document that fails Validate, or whose patient values
+// contradict each other (PaO2 above the alveolar PO2), returns PlanErrors;
+// anything else is a wrapped physio error.
+func ComputePlan(doc *PlanDocument) (*PlanResult, error) {
+	if err := doc.Validate(); err != nil {
+		return nil, err
+	}
+	c := &planComputer{doc: doc, res: &PlanResult{
+		EngineVersion:   EngineVersion,
+		DocumentVersion: doc.Version,
+		Title:           doc.Title,
+		Explain:         map[string]Figure{},
+		Caution:         PlanCaution,
+		Assumptions:     []PlanAssumption{},
+		Warnings:        []PlanWarning{},
+		Legs:            []PlanLegResult{},
+		Cylinders:       []PlanCylinderResult{},
+	}}
+	c.run()
+	if c.err != nil {
+		return nil, c.err
+	}
+	return c.res, nil
+}
+
+type planComputer struct {
+	doc *PlanDocument
+	res *PlanResult
+	err error
+
+	origin, destination Altitude
+	cabin               *Altitude
+	dp                  Pressure
+	ph2o                Pressure
+	paco2               Pressure
+	rq                  float64
+	groundFiO2          Fraction
+	groundPB            Pressure
+	aaRatio             float64
+	legAlt              []Altitude
+	legPB               []Pressure
+	legLpm              []float64
+	legMin              []float64
+}
+
+// stepErr records the first failure of a step.
+func (c *planComputer) stepErr(step string, err error) {
+	if c.err == nil && err != nil {
+		c.err = fmt.Errorf("physio: plan: %s: %w", step, err)
+	}
+}
+
+func (c *planComputer) docErr(path, format string, args ...any) {
+	if c.err == nil {
+		c.err = PlanErrors{{Path: path, Message: fmt.Sprintf(format, args...), Err: ErrImpossible}}
+	}
+}
+
+// figure rounds x, records its Figure under key in ex, and returns the
+// rounded number.
+func (c *planComputer) figure(ex map[string]Figure, key string, x float64, places int32, r Rounding,
+	unit, formula, source string, inputs ...FigureInput) Number {
+	d, ok := planRound(x, places, r)
+	if !ok {
+		c.stepErr(key, fmt.Errorf("result is not a finite number: %w", ErrImpossible))
+	}
+	n := Number{d}
+	ex[key] = Figure{Value: n, Unit: unit, Formula: formula, Inputs: inputs, Source: source, Rounding: r.String()}
+	return n
+}
+
+func in(name string, x float64, unit string) FigureInput {
+	d, _ := planRound(x, 4, RoundNearest)
+	return FigureInput{Name: name, Value: Number{d}, Unit: unit}
+}
+
+func num(x float64, places int32, r Rounding) Number {
+	d, _ := planRound(x, places, r)
+	return Number{d}
+}
+
+// planRound rounds x in direction r after first dropping binary noise
+// beyond 12 significant digits, so that a value meant to be exact (5 400 ft
+// read back from metres, 0.28 − 0.04) is not pushed a whole step by a
+// 1e-16 error. The safe-side direction still applies to every real
+// difference.
+func planRound(x float64, places int32, r Rounding) (decimal.Decimal, bool) {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return decimal.Zero, false
+	}
+	if x != 0 {
+		x, _ = strconv.ParseFloat(strconv.FormatFloat(x, 'g', 12, 64), 64)
+	}
+	return Round(x, places, r)
+}
+
+func (c *planComputer) assume(path, value, reason string) {
+	c.res.Assumptions = append(c.res.Assumptions, PlanAssumption{Path: path, Value: value, Reason: reason})
+}
+
+func (c *planComputer) warn(code, severity string, leg int, format string, args ...any) {
+	w := PlanWarning{Code: code, Severity: severity, Message: fmt.Sprintf(format, args...)}
+	if leg >= 0 {
+		l := leg
+		w.Leg = &l
+	}
+	c.res.Warnings = append(c.res.Warnings, w)
+}
+
+func (c *planComputer) run() {
+	steps := []func(){c.route, c.ground, c.legs, c.limits, c.oxygen, c.trappedGas}
+	for _, step := range steps {
+		if c.err != nil {
+			return
+		}
+		step()
+	}
+	if c.err != nil {
+		return
+	}
+	c.res.Status = StatusGo
+	for _, w := range c.res.Warnings {
+		switch w.Severity {
+		case SeverityNoGo:
+			c.res.Status = StatusNoGo
+		case SeverityCaution:
+			if c.res.Status == StatusGo {
+				c.res.Status = StatusCaution
+			}
+		}
+	}
+	c.res.Go = c.res.Status != StatusNoGo
+}
+
+func (c *planComputer) pressure(step string, h Altitude) Pressure {
+	p, err := PressureAtAltitude(h)
+	c.stepErr(step, err)
+	return p
+}
+
+// route: field altitudes and the cabin.
+func (c *planComputer) route() {
+	r := c.doc.Route
+	c.origin = Feet(*r.OriginElevationFt)
+	c.destination = Feet(*r.DestinationElevationFt)
+	if r.MaxDifferentialPsi != nil {
+		c.dp = Psi(*r.MaxDifferentialPsi)
+	}
+	c.res.Pressurised = c.dp > 0
+	switch {
+	case r.CabinAltitudeFt != nil:
+		h := Feet(*r.CabinAltitudeFt)
+		c.cabin = &h
+		n := c.figure(c.res.Explain, "cabin_altitude_ft", h.Feet(), 0, RoundUp, "ft",
+			"cabin altitude as stated", srcPilot, in("stated cabin altitude", *r.CabinAltitudeFt, "ft"))
+		c.res.CabinAltitudeFt = &n
+	case r.CruiseAltitudeFt != nil:
+		h, err := CabinAltitude(Feet(*r.CruiseAltitudeFt), c.dp, c.origin)
+		if err != nil {
+			c.stepErr("cabin altitude", err)
+			return
+		}
+		c.cabin = &h
+		formula := "unpressurised: cabin = cruise"
+		if c.dp > 0 {
+			formula = "P_cabin = P(cruise) + max differential; cabin = H(P_cabin), not below the origin field"
+		}
+		n := c.figure(c.res.Explain, "cabin_altitude_ft", h.Feet(), 0, RoundUp, "ft", formula, srcCabin,
+			in("cruise altitude", *r.CruiseAltitudeFt, "ft"), in("max differential", c.dp.Psi(), "psi"),
+			in("origin elevation", *r.OriginElevationFt, "ft"))
+		c.res.CabinAltitudeFt = &n
+	}
+	for i, leg := range c.doc.Legs {
+		var h Altitude
+		switch leg.Where {
+		case WhereOrigin:
+			h = c.origin
+		case WhereDestination:
+			h = c.destination
+		default:
+			h = *c.cabin
+		}
+		c.legAlt = append(c.legAlt, h)
+		c.legPB = append(c.legPB, c.pressure(fmt.Sprintf("legs[%d] pressure", i), h))
+		c.legMin = append(c.legMin, *leg.Minutes)
+	}
+	best := 0
+	for i, h := range c.legAlt {
+		if h > c.legAlt[best] {
+			best = i
+		}
+	}
+	c.res.HighestLeg = best
+	c.res.HighestAltitudeFt = c.figure(c.res.Explain, "highest_altitude_ft", c.legAlt[best].Feet(), 0, RoundUp, "ft",
+		"highest of the legs' altitudes (origin, cabin, destination)", srcPlan,
+		in("origin elevation", c.origin.Feet(), "ft"), in("destination elevation", c.destination.Feet(), "ft"))
+}
+
+// ground: the patient's state where it was measured.
+func (c *planComputer) ground() {
+	pt := c.doc.Patient
+	g := &c.res.Ground
+	g.Explain = map[string]Figure{}
+	g.MeasuredAt = pt.MeasuredAt
+	if g.MeasuredAt == "" {
+		g.MeasuredAt = WhereOrigin
+		c.assume("patient.measured_at", WhereOrigin, "not given: the ground state is taken as measured at the origin field")
+	}
+	groundAlt := c.origin
+	if g.MeasuredAt == WhereDestination {
+		groundAlt = c.destination
+	}
+	temp := DefaultPlanTemperatureC
+	if pt.TemperatureC != nil {
+		temp = *pt.TemperatureC
+	} else {
+		c.assume("patient.temperature_c", "37", "not given: normal body temperature")
+	}
+	c.paco2 = MmHg(DefaultPlanPaCO2MmHg)
+	if pt.PaCO2MmHg != nil {
+		c.paco2 = MmHg(*pt.PaCO2MmHg)
+	} else {
+		c.assume("patient.paco2_mmhg", "40", "not given: middle of the normal range 35-45 mmHg (common practice); give the measured value")
+	}
+	c.rq = DefaultRQ
+	if pt.RQ != nil {
+		c.rq = *pt.RQ
+	} else {
+		c.assume("patient.rq", "0.8", "not given: respiratory quotient 0.8 (common practice)")
+	}
+	c.assume("method", "constant PaCO2, RQ and a/A ratio", "PaCO2, RQ and the a/A ratio measured on the ground are held on every leg (no allowance for hyperventilation or a changing shunt)")
+
+	var err error
+	c.ph2o, err = WaterVapourPressure(Celsius(temp))
+	if err != nil {
+		c.stepErr("water vapour pressure", err)
+		return
+	}
+	c.groundFiO2 = Fraction(*pt.FiO2)
+	c.groundPB = c.pressure("ground pressure", groundAlt)
+	if c.err != nil {
+		return
+	}
+	g.AltitudeFt = num(groundAlt.Feet(), 0, RoundNearest)
+	g.PressureMmHg = c.figure(g.Explain, "pressure_mmhg", c.groundPB.MmHg(), 1, RoundNearest, "mmHg",
+		"P(H), standard atmosphere", srcISA, in("altitude", groundAlt.Feet(), "ft"))
+	g.WaterVapourMmHg = c.figure(g.Explain, "water_vapour_mmhg", c.ph2o.MmHg(), 2, RoundUp, "mmHg",
+		"saturation vapour pressure of water at body temperature", srcWater, in("temperature", temp, "°C"))
+	g.FiO2 = num(*pt.FiO2, 2, RoundNearest)
+	g.PaCO2MmHg = num(c.paco2.MmHg(), 1, RoundNearest)
+	g.RQ = num(c.rq, 2, RoundNearest)
+
+	alv, err := AlveolarPO2(c.groundFiO2, c.groundPB, c.ph2o, c.paco2, c.rq)
+	if err != nil || alv.MmHg() < 1 {
+		if errors.Is(err, ErrImpossible) || err == nil {
+			c.docErr("patient.paco2_mmhg", "%s mmHg with FiO2 %s at %.1f mmHg leaves no alveolar oxygen; check paco2_mmhg and fio2",
+				fmtPlanNum(c.paco2.MmHg()), fmtPlanNum(*pt.FiO2), c.groundPB.MmHg())
+		} else {
+			c.stepErr("ground PAO2", err)
+		}
+		return
+	}
+	g.AlveolarPO2MmHg = c.figure(g.Explain, "pao2_alveolar_mmhg", alv.MmHg(), 1, RoundDown, "mmHg",
+		"PAO2 = FiO2·(PB − PH2O) − PaCO2/R", srcAlveolar,
+		in("FiO2", *pt.FiO2, ""), in("PB", c.groundPB.MmHg(), "mmHg"), in("PH2O", c.ph2o.MmHg(), "mmHg"),
+		in("PaCO2", c.paco2.MmHg(), "mmHg"), in("R", c.rq, ""))
+
+	var pao2 Pressure
+	path := "patient.pao2_mmhg"
+	if pt.PaO2MmHg != nil {
+		pao2 = MmHg(*pt.PaO2MmHg)
+		g.PaO2Source = "measured"
+		g.PaO2MmHg = num(*pt.PaO2MmHg, 1, RoundNearest)
+	} else {
+		path = "patient.spo2_percent"
+		pao2, err = PO2AtSaturation(Percent(*pt.SpO2Percent))
+		if err != nil {
+			c.docErr(path, "%s %% lies on the flat top of the dissociation curve, where SpO2 cannot give a PaO2; give pao2_mmhg",
+				fmtPlanNum(*pt.SpO2Percent))
+			return
+		}
+		g.PaO2Source = "from_spo2"
+		g.PaO2MmHg = c.figure(g.Explain, "pao2_arterial_mmhg", pao2.MmHg(), 1, RoundDown, "mmHg",
+			"PaO2 at SpO2 on the standard dissociation curve", srcSevInv, in("SpO2", *pt.SpO2Percent, "%"))
+		c.warn(WarnPaO2FromSpO2, SeverityInfo, -1, "PaO2 %s mmHg estimated from SpO2 %s %% on the standard curve (37 °C, pH 7.40); a measured PaO2 is better",
+			g.PaO2MmHg, fmtPlanNum(*pt.SpO2Percent))
+		if *pt.SpO2Percent > 97 {
+			c.warn(WarnOutsideValidity, SeverityCaution, -1, "SpO2 %s %% is on the flat top of the dissociation curve: the PaO2 estimated from it (%s mmHg) is unreliable; give a measured PaO2",
+				fmtPlanNum(*pt.SpO2Percent), g.PaO2MmHg)
+		}
+	}
+	ratio, err := AARatio(pao2, alv)
+	if err != nil {
+		if errors.Is(err, ErrImpossible) {
+			c.docErr(path, "PaO2 %.1f mmHg is above the alveolar PO2 of %.1f mmHg at FiO2 %s and %.1f mmHg; check fio2, pao2_mmhg, spo2_percent and paco2_mmhg",
+				pao2.MmHg(), alv.MmHg(), fmtPlanNum(*pt.FiO2), c.groundPB.MmHg())
+		} else {
+			c.stepErr("a/A ratio", err)
+		}
+		return
+	}
+	c.aaRatio = ratio
+	g.AARatio = c.figure(g.Explain, "aa_ratio", ratio, 3, RoundDown, "",
+		"a/A = PaO2/PAO2", srcAA, in("PaO2", pao2.MmHg(), "mmHg"), in("PAO2", alv.MmHg(), "mmHg"))
+	grad, err := AaGradient(alv, pao2)
+	c.stepErr("A-a gradient", err)
+	g.AaGradientMmHg = c.figure(g.Explain, "aa_gradient_mmhg", grad.MmHg(), 1, RoundUp, "mmHg",
+		"A-a gradient = PAO2 − PaO2", srcAA, in("PAO2", alv.MmHg(), "mmHg"), in("PaO2", pao2.MmHg(), "mmHg"))
+	if pt.AgeYears != nil {
+		e, err := ExpectedAaGradient(*pt.AgeYears)
+		c.stepErr("expected A-a gradient", err)
+		n := c.figure(g.Explain, "expected_aa_gradient_mmhg", e.MmHg(), 1, RoundUp, "mmHg",
+			"upper normal A-a gradient breathing air = age/4 + 4", srcAaAge, in("age", *pt.AgeYears, "years"))
+		g.ExpectedAaGradient = &n
+	}
+
+	sat, err := Saturation(pao2)
+	c.stepErr("ground saturation", err)
+	if pt.SpO2Percent != nil {
+		g.SpO2Source = "measured"
+		g.SpO2Percent = num(*pt.SpO2Percent, 1, RoundNearest)
+		if pt.PaO2MmHg != nil && math.Abs(sat.Percent()-*pt.SpO2Percent) > planSpO2Disagreement {
+			c.warn(WarnSpO2PaO2Disagree, SeverityCaution, -1, "SpO2 %s %% and PaO2 %s mmHg disagree: the standard curve gives %.1f %% at that PaO2; the plan uses the PaO2 — check both",
+				fmtPlanNum(*pt.SpO2Percent), fmtPlanNum(*pt.PaO2MmHg), sat.Percent())
+		}
+	} else {
+		g.SpO2Source = "from_pao2"
+		g.SpO2Percent = c.figure(g.Explain, "spo2_percent", sat.Percent(), 1, RoundDown, "%",
+			"S = 1/(23400/(PO2³ + 150·PO2) + 1)", srcSev, in("PaO2", pao2.MmHg(), "mmHg"))
+	}
+	if math.Abs(temp-37) > 1 {
+		c.warn(WarnOutsideValidity, SeverityCaution, -1, "body temperature %s °C: the saturation curve used is the standard one (37 °C, pH 7.40), so expected SpO2 values are approximate",
+			fmtPlanNum(temp))
+	}
+	if pt.HbGPerDL != nil {
+		ct, err := OxygenContent(*pt.HbGPerDL, sat, pao2, DefaultHufner)
+		c.stepErr("ground oxygen content", err)
+		n := c.figure(g.Explain, "cao2_ml_dl", ct, 1, RoundDown, "mL/dL", "CaO2 = 1.34·Hb·SaO2 + 0.003·PaO2", srcContent,
+			in("Hb", *pt.HbGPerDL, "g/dL"), in("SaO2", sat.Value(), ""), in("PaO2", pao2.MmHg(), "mmHg"))
+		g.ContentMLPerDL = &n
+	}
+}
+
+// planSpO2Disagreement is how far, in SpO2 points, a measured SpO2 may lie
+// from the standard curve at the measured PaO2 before Alvea flags it.
+// Alvea's threshold: pulse oximeters read a few points off the curve.
+const planSpO2Disagreement = 4.0
+
+// legs: per-leg gas chain and oxygen flow.
+func (c *planComputer) legs() {
+	target := DefaultSpO2TargetPercent
+	if c.doc.Policy != nil && c.doc.Policy.SpO2TargetPercent != nil {
+		target = *c.doc.Policy.SpO2TargetPercent
+	} else {
+		c.assume("policy.spo2_target_percent", fmtPlanNum(DefaultSpO2TargetPercent), "not given: lower end of the usual 94-98 % target (BTS 2017); 88-92 % for patients at risk of hypercapnia")
+	}
+	c.res.SpO2TargetPercent = num(target, 1, RoundNearest)
+	start := 0.0
+	for i, leg := range c.doc.Legs {
+		lr := c.leg(i, leg, target)
+		lr.StartMinute = num(start, 0, RoundDown)
+		start += c.legMin[i]
+		c.res.Legs = append(c.res.Legs, lr)
+		if c.err != nil {
+			return
+		}
+	}
+	c.res.TransportMinutes = num(start, 0, RoundUp)
+}
+
+func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
+	o := leg.Oxygen
+	ex := map[string]Figure{}
+	lr := PlanLegResult{Index: i, Label: leg.Label, Where: leg.Where, Device: o.Device, Explain: ex,
+		Minutes: num(c.legMin[i], 2, RoundNearest), Options: []PlanOption{}}
+	h, pb := c.legAlt[i], c.legPB[i]
+	step := func(s string) string { return fmt.Sprintf("legs[%d] %s", i, s) }
+	lr.AltitudeFt = c.figure(ex, "altitude_ft", h.Feet(), 0, RoundUp, "ft", "altitude of "+leg.Where, srcPlan)
+	lr.PressureMmHg = c.figure(ex, "pressure_mmhg", pb.MmHg(), 1, RoundNearest, "mmHg", "P(H), standard atmosphere", srcISA,
+		in("altitude", h.Feet(), "ft"))
+
+	// FiO2 the set-up delivers, and the oxygen it draws.
+	var rng FiO2Range
+	var lpm float64
+	var err error
+	rngSource, lpmFormula, lpmSource := "set on the device", "oxygen flow as set", srcPlan
+	var lpmInputs []FigureInput
+	switch o.Device {
+	case RoomAir:
+		rng = FiO2Range{Low: 0.21, High: 0.21}
+		rngSource, lpmFormula = "room air", "no supplemental oxygen"
+	case NasalCannula, SimpleMask, NonRebreather:
+		rng, err = DeviceFiO2(o.Device, Flow(*o.FlowLpm))
+		c.stepErr(step("device FiO2"), err)
+		rngSource = srcBTS
+		lpm = *o.FlowLpm
+		lpmInputs = []FigureInput{in("flow", lpm, "L/min")}
+	case Venturi:
+		rng = FiO2Range{Low: Fraction(*o.FiO2), High: Fraction(*o.FiO2)}
+		lpm = *o.FlowLpm
+		lpmFormula = "oxygen flow to the Venturi valve"
+		lpmInputs = []FigureInput{in("flow", lpm, "L/min")}
+	case Blender, HighFlow:
+		rng = FiO2Range{Low: Fraction(*o.FiO2), High: Fraction(*o.FiO2)}
+		var f Flow
+		if o.Device == Blender {
+			f, err = OxygenShareOfBlend(Flow(*o.FlowLpm), Fraction(*o.FiO2))
+		} else {
+			f, err = HighFlowOxygen(Flow(*o.FlowLpm), Fraction(*o.FiO2))
+		}
+		c.stepErr(step("oxygen share"), err)
+		lpm = float64(f)
+		lpmFormula, lpmSource = "Q_O2 = Q_total·(FiO2 − 0.21)/0.79", srcBlend
+		lpmInputs = []FigureInput{in("total flow", *o.FlowLpm, "L/min"), in("FiO2", *o.FiO2, "")}
+	case Ventilator:
+		rng = FiO2Range{Low: Fraction(*o.FiO2), High: Fraction(*o.FiO2)}
+		bias, leak, drive := c.ventDefault(i, "bias_flow_lpm", o.BiasFlowLpm), c.ventDefault(i, "leak_lpm", o.LeakLpm), c.ventDefault(i, "drive_gas_lpm", o.DriveGasLpm)
+		f, err := VentilatorOxygen(o.Drive, Flow(*o.MinuteVolumeLpm), Flow(bias), Flow(leak), Flow(drive), Fraction(*o.FiO2))
+		c.stepErr(step("ventilator oxygen"), err)
+		lpm = float64(f)
+		lpmFormula, lpmSource = "(V̇E + bias + leak)·(FiO2 − 0.21)/0.79 + drive gas", srcVent
+		if o.Drive == DriveOxygen {
+			lpmFormula = "(V̇E + bias + leak)·FiO2 + drive gas"
+		}
+		lpmInputs = []FigureInput{in("minute volume", *o.MinuteVolumeLpm, "L/min"), in("bias flow", bias, "L/min"),
+			in("leak", leak, "L/min"), in("drive gas", drive, "L/min"), in("FiO2", *o.FiO2, "")}
+		c.warn(WarnVentilatorEstimate, SeverityInfo, i, "leg %d: ventilator oxygen use %.1f L/min is an estimate (%s drive); the ventilator's own consumption figure wins",
+			i+1, lpm, o.Drive)
+	}
+	if c.err != nil {
+		return lr
+	}
+	lr.FiO2DeliveredLow = c.figure(ex, "fio2_delivered_low", float64(rng.Low), 2, RoundDown, "", "low end of the set-up's FiO2", rngSource)
+	lr.FiO2DeliveredHigh = c.figure(ex, "fio2_delivered_high", float64(rng.High), 2, RoundUp, "", "high end of the set-up's FiO2", rngSource)
+	c.legLpm = append(c.legLpm, lpm)
+	lr.OxygenLpm = c.figure(ex, "oxygen_lpm", lpm, 2, RoundUp, "L/min", lpmFormula, lpmSource, lpmInputs...)
+	lr.OxygenL = c.figure(ex, "oxygen_l", lpm*c.legMin[i], 0, RoundUp, "L", "oxygen flow × minutes", srcPlan,
+		in("oxygen flow", lpm, "L/min"), in("minutes", c.legMin[i], "min"))
+
+	// Alveolar, arterial and saturation at the low end of the set-up.
+	alv, err := AlveolarPO2(rng.Low, pb, c.ph2o, c.paco2, c.rq)
+	if err != nil {
+		if !errors.Is(err, ErrImpossible) {
+			c.stepErr(step("PAO2"), err)
+			return lr
+		}
+		alv = 0
+		c.warn(WarnNoAlveolarOxygen, SeverityNoGo, i, "leg %d (%s, %s ft): at FiO2 %s no oxygen reaches the alveoli (PAO2 below zero)",
+			i+1, leg.Where, lr.AltitudeFt, lr.FiO2DeliveredLow)
+	}
+	lr.PAO2MmHg = c.figure(ex, "pao2_mmhg", alv.MmHg(), 1, RoundDown, "mmHg", "PAO2 = FiO2·(PB − PH2O) − PaCO2/R", srcAlveolar,
+		in("FiO2 (low end)", float64(rng.Low), ""), in("PB", pb.MmHg(), "mmHg"), in("PH2O", c.ph2o.MmHg(), "mmHg"),
+		in("PaCO2", c.paco2.MmHg(), "mmHg"), in("R", c.rq, ""))
+	pao2, err := PaO2ByAARatio(c.aaRatio, alv)
+	c.stepErr(step("PaO2"), err)
+	lr.PaO2ExpectedMmHg = c.figure(ex, "pao2_expected_mmhg", pao2.MmHg(), 1, RoundDown, "mmHg", "PaO2 = (a/A)·PAO2", srcAA,
+		in("a/A", c.aaRatio, ""), in("PAO2", alv.MmHg(), "mmHg"))
+	sat, err := Saturation(pao2)
+	c.stepErr(step("saturation"), err)
+	lr.SpO2ExpectedPercent = c.figure(ex, "spo2_expected_percent", sat.Percent(), 1, RoundDown, "%",
+		"S = 1/(23400/(PO2³ + 150·PO2) + 1)", srcSev, in("PaO2", pao2.MmHg(), "mmHg"))
+	if hb := c.doc.Patient.HbGPerDL; hb != nil {
+		ct, err := OxygenContent(*hb, sat, pao2, DefaultHufner)
+		c.stepErr(step("oxygen content"), err)
+		n := c.figure(ex, "cao2_expected_ml_dl", ct, 1, RoundDown, "mL/dL", "CaO2 = 1.34·Hb·SaO2 + 0.003·PaO2", srcContent,
+			in("Hb", *hb, "g/dL"), in("SaO2", sat.Value(), ""), in("PaO2", pao2.MmHg(), "mmHg"))
+		lr.ContentMLPerDL = &n
+	}
+
+	// FiO2 needed to hold the ground state.
+	need, err := FiO2ToMatch(c.groundFiO2, c.groundPB, pb, c.ph2o)
+	if err != nil && !errors.Is(err, ErrImpossible) {
+		c.stepErr(step("FiO2 needed"), err)
+		return lr
+	}
+	lr.FiO2Needed = c.figure(ex, "fio2_needed", float64(need), 2, RoundUp, "",
+		"FiO2 = FiO2_ground·(PB_ground − PH2O)/(PB − PH2O)", srcInspired,
+		in("FiO2 ground", float64(c.groundFiO2), ""), in("PB ground", c.groundPB.MmHg(), "mmHg"),
+		in("PB", pb.MmHg(), "mmHg"), in("PH2O", c.ph2o.MmHg(), "mmHg"))
+	lr.FiO2Possible = err == nil && lr.FiO2Needed.Cmp(num(1, 0, RoundNearest).Decimal) <= 0
+	lr.Delivers = lr.FiO2Possible && lr.FiO2DeliveredLow.Cmp(lr.FiO2Needed.Decimal) >= 0
+	where := fmt.Sprintf("leg %d (%s, %s ft)", i+1, leg.Where, lr.AltitudeFt)
+	switch {
+	case !lr.FiO2Possible:
+		c.warn(WarnFiO2Unreachable, SeverityNoGo, i, "%s: FiO2 %s would be needed to hold the ground state; even FiO2 1.0 cannot", where, lr.FiO2Needed)
+	case !lr.Delivers:
+		for _, s := range SetUpsFor(Fraction(lr.FiO2Needed.InexactFloat64())) {
+			lr.Options = append(lr.Options, planOption(s))
+		}
+		c.warn(WarnSetUpBelowNeed, SeverityNoGo, i, "%s: %s may deliver FiO2 %s, below the %s needed to hold the ground state; %d option(s) listed",
+			where, o.Device, lr.FiO2DeliveredLow, lr.FiO2Needed, len(lr.Options))
+	}
+	if lr.SpO2ExpectedPercent.InexactFloat64() < target {
+		c.warn(WarnSpO2BelowTarget, SeverityCaution, i, "%s: expected SpO2 %s %% is below the %s %% target", where, lr.SpO2ExpectedPercent, fmtPlanNum(target))
+	}
+	return lr
+}
+
+func (c *planComputer) ventDefault(leg int, key string, p *float64) float64 {
+	if p != nil {
+		return *p
+	}
+	c.assume(fmt.Sprintf("legs[%d].oxygen.%s", leg, key), "0", "not given: taken as 0 L/min")
+	return 0
+}
+
+func planOption(s SetUp) PlanOption {
+	op := PlanOption{Device: s.Device, OxygenLpm: num(float64(s.Flow), 1, RoundUp), TotalLpm: num(float64(s.TotalFlow), 1, RoundNearest),
+		FiO2Low: num(float64(s.FiO2.Low), 2, RoundDown), FiO2High: num(float64(s.FiO2.High), 2, RoundUp)}
+	fio2 := op.FiO2Low.String()
+	if op.FiO2High.Cmp(op.FiO2Low.Decimal) != 0 {
+		fio2 += "-" + op.FiO2High.String()
+	}
+	op.Label = fmt.Sprintf("option: %s at %s L/min oxygen (FiO2 %s)", s.Device, op.OxygenLpm, fio2)
+	if s.TotalFlow != s.Flow {
+		op.Label = fmt.Sprintf("option: %s at %s L/min oxygen, %s L/min total (FiO2 %s)", s.Device, op.OxygenLpm, op.TotalLpm, fio2)
+	}
+	return op
+}
+
+// limits: highest-leg FiO2, the altitude limits of FiO2 1.0, altitude warnings.
+func (c *planComputer) limits() {
+	r := c.res
+	possible := true
+	worst := 0
+	for i, l := range r.Legs {
+		if !l.FiO2Possible {
+			possible = false
+		}
+		if l.FiO2Needed.Cmp(r.Legs[worst].FiO2Needed.Decimal) > 0 {
+			worst = i
+		}
+	}
+	r.FiO2Possible = possible
+	r.FiO2Needed = r.Legs[worst].FiO2Needed
+	r.Explain["fio2_needed"] = r.Legs[worst].Explain["fio2_needed"]
+
+	maxCabin, err := MaxAltitudeForFiO2(c.groundFiO2, c.groundPB, 1, c.ph2o)
+	if err != nil && !errors.Is(err, ErrOutOfRange) {
+		c.stepErr("highest altitude for FiO2 1.0", err)
+		return
+	}
+	r.MaxCabinAltitudeFt = c.figure(r.Explain, "max_cabin_altitude_ft", maxCabin.Feet(), 0, RoundDown, "ft",
+		"PB = PH2O + FiO2_ground·(PB_ground − PH2O)/1.0; H = H(PB)", srcInspired,
+		in("FiO2 ground", float64(c.groundFiO2), ""), in("PB ground", c.groundPB.MmHg(), "mmHg"), in("PH2O", c.ph2o.MmHg(), "mmHg"))
+	if c.res.Pressurised {
+		cruise, err := MaxCruiseAltitude(maxCabin, c.dp)
+		formula := "H_cruise = H(P(max cabin) − max differential)"
+		if err != nil {
+			if !errors.Is(err, ErrOutOfRange) {
+				c.stepErr("highest cruise altitude", err)
+				return
+			}
+			formula += "; limited by the model ceiling (20 000 m)"
+			r.MaxCruiseAtCeiling = true
+		}
+		n := c.figure(r.Explain, "max_cruise_altitude_ft", cruise.Feet(), 0, RoundDown, "ft", formula, srcCabin,
+			in("max cabin altitude", maxCabin.Feet(), "ft"), in("max differential", c.dp.Psi(), "psi"))
+		r.MaxCruiseAltitudeFt = &n
+	}
+	if !possible {
+		msg := fmt.Sprintf("FiO2 1.0 holds the ground state up to %s ft", r.MaxCabinAltitudeFt)
+		if r.MaxCruiseAltitudeFt != nil {
+			msg += fmt.Sprintf(" of cabin altitude, that is a cruise at or below %s ft with this aircraft", r.MaxCruiseAltitudeFt)
+		}
+		for _, l := range r.Legs {
+			if !l.FiO2Possible && l.Where != WhereCabin {
+				msg += fmt.Sprintf("; the %s field (%s ft) is itself above that: no cabin setting helps there", l.Where, l.AltitudeFt)
+				break
+			}
+		}
+		c.warn(WarnFiO2Unreachable, SeverityNoGo, -1, "%s", msg)
+	}
+
+	limit := num(CabinAltitudeLimit.Feet(), 0, RoundNearest)
+	cabinWarned, fieldWarned := false, map[string]bool{}
+	for i, l := range r.Legs {
+		if l.AltitudeFt.Cmp(limit.Decimal) <= 0 {
+			continue
+		}
+		if l.Where == WhereCabin && !cabinWarned {
+			cabinWarned = true
+			c.warn(WarnCabinAbove8000Ft, SeverityCaution, i, "cabin altitude %s ft is above the 8000 ft limit of normal operation (14 CFR 25.841(a))", l.AltitudeFt)
+		}
+		if l.Where != WhereCabin && !fieldWarned[l.Where] {
+			fieldWarned[l.Where] = true
+			c.warn(WarnFieldAbove8000Ft, SeverityCaution, i, "the %s field at %s ft is above 8000 ft", l.Where, l.AltitudeFt)
+		}
+	}
+}
+
+// oxygen: need with reserve, usable supply, margin, cylinder changes.
+func (c *planComputer) oxygen() {
+	r := c.res
+	pol := c.doc.Policy
+	if pol == nil {
+		pol = &PlanPolicy{}
+	}
+	policy := DefaultReservePolicy
+	switch {
+	case pol.ResidualPsi != nil:
+		policy.Residual = Psi(*pol.ResidualPsi)
+	case pol.ResidualBar != nil:
+		policy.Residual = Bar(*pol.ResidualBar)
+	default:
+		c.assume("policy.residual_psi", fmtPlanNum(math.Round(DefaultReservePolicy.Residual.Psi())), "not given: safe residual 200 psi in each cylinder (common practice)")
+	}
+	if pol.ReserveFactor != nil {
+		policy.Factor = *pol.ReserveFactor
+	} else {
+		c.assume("policy.reserve_factor", fmtPlanNum(DefaultReservePolicy.Factor), "not given: 1.5 times the calculated need (common practice)")
+	}
+	reserveMin := DefaultReservePolicy.AddedMinutes.Minutes()
+	if pol.ReserveMinutes != nil {
+		reserveMin = *pol.ReserveMinutes
+		policy.AddedMinutes = Minutes(reserveMin)
+	} else {
+		c.assume("policy.reserve_minutes", fmtPlanNum(reserveMin), "not given: no added minutes")
+	}
+	r.ReserveFactor = num(policy.Factor, 2, RoundNearest)
+	r.ReserveMinutes = num(reserveMin, 0, RoundNearest)
+	r.ResidualPsi = num(policy.Residual.Psi(), 0, RoundNearest)
+	r.ResidualBar = num(policy.Residual.Bar(), 1, RoundNearest)
+
+	calc, maxFlow, lastFlow := 0.0, 0.0, 0.0
+	for i, lpm := range c.legLpm {
+		calc += lpm * c.legMin[i]
+		maxFlow = math.Max(maxFlow, lpm)
+		lastFlow = lpm
+	}
+	r.OxygenCalculatedL = c.figure(r.Explain, "oxygen_calculated_l", calc, 0, RoundUp, "L", "sum over legs of oxygen flow × minutes", srcPlan)
+	need, err := policy.Required(Litres(calc), Flow(maxFlow))
+	if err != nil {
+		c.stepErr("reserve", err)
+		return
+	}
+	r.OxygenNeededL = c.figure(r.Explain, "oxygen_needed_l", need.Litres(), 0, RoundUp, "L",
+		"calculated need × reserve factor + reserve minutes × highest leg flow", srcReserve,
+		in("calculated need", calc, "L"), in("reserve factor", policy.Factor, ""), in("reserve minutes", reserveMin, "min"),
+		in("highest leg flow", maxFlow, "L/min"))
+
+	// Cylinders in the order listed, each line's count in turn.
+	var usable []float64
+	total := 0.0
+	for si, s := range c.doc.Supply {
+		cyl, gauge, desc := planCylinder(s)
+		count := 1
+		if s.Count != nil {
+			count = *s.Count
+		} else {
+			c.assume(fmt.Sprintf("supply[%d].count", si), "1", "not given: one cylinder")
+		}
+		u, err := cyl.Usable(gauge, policy.Residual)
+		if err != nil {
+			if c.err == nil {
+				c.err = PlanErrors{{Path: fmt.Sprintf("supply[%d]", si), Message: trimPrefix(err), Err: ErrOutOfRange}}
+			}
+			return
+		}
+		for k := 0; k < count; k++ {
+			ex := map[string]Figure{}
+			name := s.Name
+			if name == "" {
+				name = desc
+			}
+			if count > 1 {
+				name = fmt.Sprintf("%s #%d", name, k+1)
+			}
+			cr := PlanCylinderResult{Order: len(r.Cylinders) + 1, Supply: si, Copy: k + 1, Name: name, Explain: ex}
+			cr.UsableL = c.figure(ex, "usable_l", u.Litres(), 0, RoundDown, "L", cyl.Method()+", above the residual", srcCylinder,
+				in("gauge", gaugeValue(s), gaugeUnit(s)), in("residual", policy.Residual.Psi(), "psi"))
+			usable = append(usable, cr.UsableL.InexactFloat64())
+			total += cr.UsableL.InexactFloat64()
+			if u <= 0 {
+				c.warn(WarnCylinderAtResidual, SeverityCaution, -1, "%s is at or below the %s psi residual: no usable oxygen", name, r.ResidualPsi)
+			}
+			r.Cylinders = append(r.Cylinders, cr)
+		}
+	}
+	r.OxygenUsableL = c.figure(r.Explain, "oxygen_usable_l", total, 0, RoundDown, "L",
+		"sum of each cylinder's usable litres (each rounded down)", srcCylinder, in("residual", policy.Residual.Psi(), "psi"))
+	r.OxygenMarginL = c.figure(r.Explain, "oxygen_margin_l", r.OxygenUsableL.Sub(r.OxygenNeededL.Decimal).InexactFloat64(), 0, RoundDown, "L",
+		"usable − needed with reserve", srcPlan, in("usable", r.OxygenUsableL.InexactFloat64(), "L"), in("needed", r.OxygenNeededL.InexactFloat64(), "L"))
+	if r.OxygenMarginL.Sign() < 0 {
+		calcN := r.OxygenCalculatedL
+		cover := "does not cover even the calculated need"
+		if r.OxygenUsableL.Cmp(calcN.Decimal) >= 0 {
+			cover = "covers the calculated need but not the reserve"
+		}
+		c.warn(WarnSupplyShort, SeverityNoGo, -1, "supply short by %s L: %s L needed with reserve, %s L usable above the residual (%s)",
+			r.OxygenMarginL.Neg(), r.OxygenNeededL, r.OxygenUsableL, cover)
+	}
+	c.timeline(usable, lastFlow)
+}
+
+// timeline walks the legs minute by minute of flow, using the cylinders in
+// order, and records when each is opened and reaches its residual.
+func (c *planComputer) timeline(usable []float64, lastFlow float64) {
+	r := c.res
+	idx, left, t := 0, 0.0, 0.0
+	if len(usable) > 0 {
+		left = usable[0]
+		zero := num(0, 0, RoundDown)
+		r.Cylinders[0].StartMinute = &zero
+	}
+	change := func(leg int) {
+		m := num(t, 0, RoundDown)
+		r.Cylinders[idx].ChangeMinute = &m
+		lg := leg
+		r.Cylinders[idx].ChangeLeg = &lg
+		if leg >= 0 && c.doc.Legs[leg].Where == WhereCabin && idx+1 < len(usable) {
+			c.warn(WarnChangeInFlight, SeverityInfo, leg, "%s reaches its residual at minute %s, in flight (leg %d): have the next cylinder ready", r.Cylinders[idx].Name, m, leg+1)
+		}
+		idx++
+		if idx < len(usable) {
+			left = usable[idx]
+			s := m
+			r.Cylinders[idx].StartMinute = &s
+		}
+	}
+	// Cylinders with nothing usable are passed over at the start.
+	for idx < len(usable) && left <= 0 {
+		change(0)
+	}
+	exhausted := false
+	for i, lpm := range c.legLpm {
+		remaining := c.legMin[i]
+		for remaining > 0 {
+			if lpm <= 0 || idx >= len(usable) {
+				if lpm > 0 && !exhausted {
+					exhausted = true
+					m := c.figure(r.Explain, "supply_exhausted_minute", t, 0, RoundDown, "min",
+						"minute the last cylinder reaches its residual, legs' flows in order", srcPlan)
+					r.SupplyExhaustedMin = &m
+				}
+				t += remaining
+				break
+			}
+			dt := math.Min(remaining, left/lpm)
+			t += dt
+			remaining -= dt
+			left -= dt * lpm
+			if left <= 1e-9 {
+				change(i)
+				for idx < len(usable) && left <= 0 {
+					change(i)
+				}
+			}
+		}
+	}
+	if !exhausted && idx < len(usable) && lastFlow > 0 {
+		rest := left
+		for k := idx + 1; k < len(usable); k++ {
+			rest += usable[k]
+		}
+		m := c.figure(r.Explain, "supply_exhausted_minute", t+rest/lastFlow, 0, RoundDown, "min",
+			"end of the transport + remaining usable litres / last leg's flow", srcPlan,
+			in("end of transport", t, "min"), in("remaining usable", rest, "L"), in("last leg's flow", lastFlow, "L/min"))
+		r.SupplyExhaustedMin = &m
+	}
+}
+
+func planCylinder(s PlanSupply) (Cylinder, Pressure, string) {
+	var cyl Cylinder
+	var desc string
+	switch {
+	case s.Size != "":
+		cyl, _ = FactorCylinder(s.Size)
+		desc = string(s.Size) + " cylinder"
+	case s.WaterCapacityL != nil:
+		cyl, _ = WaterCapacityCylinder(Litres(*s.WaterCapacityL))
+		desc = fmtPlanNum(*s.WaterCapacityL) + " L cylinder"
+	default:
+		cyl, _ = LabelledCylinder(Litres(*s.LabelContentsL), Bar(*s.LabelPressureBar))
+		desc = fmtPlanNum(*s.LabelContentsL) + " L (label) cylinder"
+	}
+	if s.PressurePsi != nil {
+		return cyl, Psi(*s.PressurePsi), desc + " at " + fmtPlanNum(*s.PressurePsi) + " psi"
+	}
+	return cyl, Bar(*s.PressureBar), desc + " at " + fmtPlanNum(*s.PressureBar) + " bar"
+}
+
+func gaugeValue(s PlanSupply) float64 {
+	if s.PressurePsi != nil {
+		return *s.PressurePsi
+	}
+	return *s.PressureBar
+}
+
+func gaugeUnit(s PlanSupply) string {
+	if s.PressurePsi != nil {
+		return "psi"
+	}
+	return "bar"
+}
+
+// trappedGas: Boyle's-law expansion from the origin to the highest leg.
+func (c *planComputer) trappedGas() {
+	r := c.res
+	tg := &r.TrappedGas
+	tg.Explain = map[string]Figure{}
+	tg.Caution = TrappedGasCaution
+	from, to := c.pressure("origin pressure", c.origin), c.legPB[r.HighestLeg]
+	if c.err != nil {
+		return
+	}
+	tg.FromAltitudeFt = num(c.origin.Feet(), 0, RoundNearest)
+	tg.ToAltitudeFt = r.HighestAltitudeFt
+	ratio, err := ExpansionRatio(from, to)
+	c.stepErr("expansion ratio", err)
+	inputs := []FigureInput{in("P origin", from.MmHg(), "mmHg"), in("P highest", to.MmHg(), "mmHg")}
+	tg.Ratio = c.figure(tg.Explain, "ratio", ratio, 3, RoundUp, "", "V2/V1 = P1/P2", srcBoyle, inputs...)
+	r.GasExpansionRatio = tg.Ratio
+	r.Explain["gas_expansion_ratio"] = tg.Explain["ratio"]
+	tg.CuffMl = num(planCuffMl, 0, RoundNearest)
+	cuff, err := ExpandedVolume(Millilitres(planCuffMl), from, to)
+	c.stepErr("cuff expansion", err)
+	tg.CuffAtAltitudeMl = c.figure(tg.Explain, "cuff_at_altitude_ml", cuff.Millilitres(), 1, RoundUp, "mL",
+		"V2 = V1·P1/P2 (a free pocket; a cuff's pressure rises instead)", srcMann, append(inputs, in("V1", planCuffMl, "mL"))...)
+	tg.PneumothoraxMl = num(planPneumothoraxMl, 0, RoundNearest)
+	ptx, err := ExpandedVolume(Millilitres(planPneumothoraxMl), from, to)
+	c.stepErr("pneumothorax expansion", err)
+	tg.PneumothoraxAltitudeMl = c.figure(tg.Explain, "pneumothorax_at_altitude_ml", ptx.Millilitres(), 0, RoundUp, "mL",
+		"V2 = V1·P1/P2", srcBoyle, append(inputs, in("V1", planPneumothoraxMl, "mL"))...)
+	over, err := RigidSpaceOverpressure(0, from, to)
+	c.stepErr("rigid space overpressure", err)
+	tg.RigidOverpressureCmH2O = c.figure(tg.Explain, "rigid_overpressure_cmh2o", over.CmH2O(), 0, RoundUp, "cmH2O",
+		"overpressure = P1 − P2 (sealed rigid space, upper bound)", srcBoyle, inputs...)
+}
