@@ -146,21 +146,24 @@ func (c Cylinder) Validate() error {
 }
 
 func (c Cylinder) kind() (cylinderKind, error) {
-	var used []string
-	if c.Size != "" {
-		used = append(used, "size")
-	}
-	if c.WaterCapacity != 0 {
-		used = append(used, "water capacity")
-	}
-	if c.NominalContents != 0 || c.NominalPressure != 0 {
-		used = append(used, "label contents")
-	}
-	switch len(used) {
+	hasSize := c.Size != ""
+	hasWater := c.WaterCapacity != 0
+	hasLabel := c.NominalContents != 0 || c.NominalPressure != 0
+	switch cylinderCount(hasSize, hasWater, hasLabel) {
 	case 0:
 		return cylinderKindNone, &ImpossibleError{What: "cylinder", Reason: "no definition: give a size, a water capacity, or the label's contents and pressure"}
 	case 1:
 	default:
+		var used []string
+		if hasSize {
+			used = append(used, "size")
+		}
+		if hasWater {
+			used = append(used, "water capacity")
+		}
+		if hasLabel {
+			used = append(used, "label contents")
+		}
 		return cylinderKindNone, &ImpossibleError{What: "cylinder", Reason: "more than one definition (" + strings.Join(used, ", ") + "): use exactly one method"}
 	}
 	switch {
@@ -183,6 +186,16 @@ func (c Cylinder) kind() (cylinderKind, error) {
 		}
 		return cylinderKindLabel, nil
 	}
+}
+
+func cylinderCount(flags ...bool) int {
+	n := 0
+	for _, f := range flags {
+		if f {
+			n++
+		}
+	}
+	return n
 }
 
 // Method returns the name of the counting method the cylinder uses

@@ -23,17 +23,6 @@ const (
 // deviceList names the accepted devices for error messages.
 const deviceList = "nasal_cannula, simple_mask, non_rebreather, venturi, blender, high_flow, ventilator"
 
-// deviceNames are the words used for each device in error messages.
-var deviceNames = map[Device]string{
-	NasalCannula:  "nasal cannula",
-	SimpleMask:    "simple mask",
-	NonRebreather: "non-rebreather",
-	Venturi:       "Venturi",
-	Blender:       "blender",
-	HighFlow:      "high-flow",
-	Ventilator:    "ventilator",
-}
-
 // FiO2Range is the span of inspired oxygen fraction a device is expected to
 // deliver. Low-flow devices are shown as a range, never as one
 // false-precise number: what the patient breathes depends on how they
@@ -48,12 +37,13 @@ const deviceAirO2 = 0.21
 type deviceLowFlow struct {
 	minFlow, maxFlow  float64 // L/min
 	lowFiO2, highFiO2 float64
+	flowQuantity      string // names the device's flow in errors
 }
 
 var deviceLowFlowTable = map[Device]deviceLowFlow{
-	NasalCannula:  {1, 6, 0.24, 0.44},   // BTS 2017: 1–6 L/min ≈ 24–44 %
-	SimpleMask:    {5, 10, 0.40, 0.60},  // BTS 2017: 5–10 L/min 40–60 %; below 5, CO2 rebreathing
-	NonRebreather: {10, 15, 0.60, 0.90}, // BTS 2017: 10–15 L/min 60–90 %
+	NasalCannula:  {1, 6, 0.24, 0.44, "nasal cannula oxygen flow"},    // BTS 2017: 1–6 L/min ≈ 24–44 %
+	SimpleMask:    {5, 10, 0.40, 0.60, "simple mask oxygen flow"},     // BTS 2017: 5–10 L/min 40–60 %; below 5, CO2 rebreathing
+	NonRebreather: {10, 15, 0.60, 0.90, "non-rebreather oxygen flow"}, // BTS 2017: 10–15 L/min 60–90 %
 }
 
 // DeviceFiO2Band is the half-width of the FiO2 range shown for a low-flow
@@ -145,7 +135,7 @@ func DeviceFlowRange(d Device) (min, max Flow, ok bool) {
 // down and High rounded up so that the range never looks narrower.
 func DeviceFiO2(d Device, flow Flow) (FiO2Range, error) {
 	if lf, ok := deviceLowFlowTable[d]; ok {
-		if err := checkRange(deviceNames[d]+" oxygen flow", flow.LitresPerMinute(), lf.minFlow, lf.maxFlow, "L/min"); err != nil {
+		if err := checkRange(lf.flowQuantity, flow.LitresPerMinute(), lf.minFlow, lf.maxFlow, "L/min"); err != nil {
 			return FiO2Range{}, err
 		}
 		est := deviceLowFlowEstimate(lf, flow.LitresPerMinute())
