@@ -55,7 +55,7 @@ func (f *frame) Render() app.UI {
 		app.A().Class("alv-skip").Href("#main").Text("Skip to content"),
 		app.Header().Class("alv-header").Body(
 			app.Div().Class("alv-brand").Body(
-				app.Img().Src("/web/icon.svg").Alt("").Class("alv-brand-icon").Width(32).Height(32),
+				app.Img().Src("/web/icon.svg").Attr("role", "presentation").Alt("").Class("alv-brand-icon").Width(32).Height(32),
 				app.Span().Text("Alvea"),
 			),
 			app.Nav().Aria("label", "Screens").Body(
