@@ -273,7 +273,7 @@ func (c Cylinder) Contents(gauge Pressure) (Volume, error) {
 func (c Cylinder) contents(gauge Pressure, k cylinderKind) Volume {
 	switch k {
 	case cylinderKindFactor:
-		return Litres(gauge.Psi() * cylinderFactors[c.Size])
+		return Litres(gauge.Psi() * cylinderFactors[cylinderNormalSize(c.Size)])
 	case cylinderKindWater:
 		return Litres(c.WaterCapacity.Litres() * gauge.Bar())
 	default:

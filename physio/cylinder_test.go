@@ -56,6 +56,7 @@ func TestCylinderContents(t *testing.T) {
 		{"E full", e, Psi(2000), 560, 1e-12, "[calc] 2000 psi × 0.28 L/psi (factor method, REFERENCES §7)"},
 		{"H full", h, Psi(2200), 6908, 1e-12, "[calc] 2200 psi × 3.14 L/psi"},
 		{"E empty", e, 0, 0, 0, "[calc] 0 psi"},
+		{"E as a literal, lower case", Cylinder{Size: " e"}, Psi(2000), 560, 1e-12, "[calc] same as E"},
 		{"10 L at 200 bar", ten, Bar(200), 2000, 1e-12, "[calc] water capacity × gauge bar, REFERENCES §7"},
 		{"10 L at 137 bar", ten, Bar(137), 1370, 1e-12, "[calc] water capacity × gauge bar"},
 		{"UK D full", ukD, Kilopascals(13700), 340, 1e-12, "[pub] Lutman & Petros 2006: 340 L at 13 700 kPa"},

@@ -312,7 +312,9 @@ func SetUpsFor(needed Fraction) []SetUp {
 			if err != nil {
 				continue
 			}
-			if float64(r.Low) <= n && n <= float64(r.High) {
+			// 1e-9 keeps float noise in the band limits (0.32 computed as
+			// 0.3199…) from dropping a set-up at the edge.
+			if float64(r.Low)-1e-9 <= n && n <= float64(r.High)+1e-9 {
 				out = append(out, SetUp{Device: d, Flow: Flow(f), FiO2: r, TotalFlow: Flow(f)})
 			}
 		}

@@ -251,6 +251,17 @@ func TestSetUpsFor(t *testing.T) {
 	if len(masks) != 2 || masks[0] != 8 || masks[1] != 9 {
 		t.Errorf("SetUpsFor(0.551) masks at %v L/min, want [8 9]", masks)
 	}
+	// Needs exactly at a band edge ([calc] cannula bands 0.24–0.32 at 2 and
+	// 0.28–0.36 at 3 L/min) keep both set-ups despite float noise.
+	var edge []float64
+	for _, o := range SetUpsFor(0.32) {
+		if o.Device == NasalCannula {
+			edge = append(edge, o.Flow.LitresPerMinute())
+		}
+	}
+	if len(edge) != 3 || edge[0] != 2 || edge[1] != 3 || edge[2] != 4 {
+		t.Errorf("SetUpsFor(0.32) cannula flows %v, want [2 3 4]", edge)
+	}
 	// No supplemental oxygen needed, or impossible: nil.
 	for _, n := range []float64{0.21, 0.1, 0, -1, 1.01, math.NaN(), math.Inf(1)} {
 		if got := SetUpsFor(Fraction(n)); got != nil {
