@@ -66,12 +66,15 @@ const (
 
 // VenturiSettings are the fixed FiO2 values of common Venturi adapters
 // (BTS 2017: 24, 28, 31, 35, 40 and 60 %).
-var VenturiSettings = []Fraction{0.24, 0.28, 0.31, 0.35, 0.40, 0.60}
+// It is a copy: changing it changes nothing in this package.
+var VenturiSettings = append([]Fraction(nil), deviceVenturiSettings[:]...)
+
+var deviceVenturiSettings = [...]Fraction{0.24, 0.28, 0.31, 0.35, 0.40, 0.60}
 
 // deviceVenturiMinFlow is the minimum oxygen flow printed for each setting
-// on common adapters (common practice; recalled from training material, the
-// adapter's own label wins).
-var deviceVenturiMinFlow = []float64{2, 4, 6, 8, 10, 15}
+// on common adapters (common practice, recalled and not confirmed against a
+// published table; the adapter's own label wins).
+var deviceVenturiMinFlow = [len(deviceVenturiSettings)]float64{2, 4, 6, 8, 10, 15}
 
 // VenturiMinimumFlow returns the minimum oxygen flow commonly printed for a
 // standard Venturi setting (0.24 → 2, 0.28 → 4, 0.31 → 6, 0.35 → 8,
@@ -88,7 +91,7 @@ func VenturiMinimumFlow(setting Fraction) (Flow, error) {
 }
 
 func deviceVenturiIndex(setting Fraction) int {
-	for i, s := range VenturiSettings {
+	for i, s := range deviceVenturiSettings {
 		if math.Abs(float64(setting-s)) < 1e-9 {
 			return i
 		}
@@ -150,13 +153,13 @@ func DeviceFiO2(d Device, flow Flow) (FiO2Range, error) {
 		if err := checkRange("Venturi oxygen flow", flow.LitresPerMinute(), min.LitresPerMinute(), max.LitresPerMinute(), "L/min"); err != nil {
 			return FiO2Range{}, err
 		}
-		high := VenturiSettings[0]
-		for i, s := range VenturiSettings {
+		high := deviceVenturiSettings[0]
+		for i, s := range deviceVenturiSettings {
 			if flow.LitresPerMinute() >= deviceVenturiMinFlow[i] {
 				high = s
 			}
 		}
-		return FiO2Range{Low: VenturiSettings[0], High: high}, nil
+		return FiO2Range{Low: deviceVenturiSettings[0], High: high}, nil
 	case Blender:
 		if err := checkRange("blender flow", flow.LitresPerMinute(), deviceMinFlow, deviceMaxFlow, "L/min"); err != nil {
 			return FiO2Range{}, err
@@ -319,7 +322,7 @@ func SetUpsFor(needed Fraction) []SetUp {
 			}
 		}
 	}
-	for i, s := range VenturiSettings {
+	for i, s := range deviceVenturiSettings {
 		if float64(s) >= n-1e-9 {
 			o2 := Flow(deviceVenturiMinFlow[i])
 			total, err := VenturiTotalFlow(o2, s)

@@ -330,3 +330,12 @@ func TestDeviceBadInput(t *testing.T) {
 		supplyWantRange(t, err, "high-flow total flow", "L/min")
 	}
 }
+
+func TestVenturiSettingsIsACopy(t *testing.T) {
+	saved := VenturiSettings[1]
+	VenturiSettings[1] = 0.5
+	defer func() { VenturiSettings[1] = saved }()
+	if f, err := VenturiMinimumFlow(0.28); err != nil || f != 4 {
+		t.Errorf("after changing VenturiSettings, VenturiMinimumFlow(0.28) = %v, %v; want 4", f, err)
+	}
+}
