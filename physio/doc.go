@@ -19,7 +19,7 @@
 //	Altitude     metre (geopotential)  Metres, Feet
 //	Flow         litre per minute  LitresPerMinute
 //	Volume       litre             Litres, Millilitres
-//	Fraction     0–1               Fraction, Percent
+//	Fraction     0–1               FractionOf, Percent
 //	Temperature  kelvin            Kelvin, Celsius (offset scale, via functions)
 //
 // Durations use time.Duration. Text from people is parsed with decimal (see
@@ -40,6 +40,11 @@
 // Each formula's doc comment cites its method. The list:
 //
 //   - U.S. Standard Atmosphere, 1976 (NOAA-S/T 76-1562); ICAO Doc 7488/3.
+//     Domain −610 m to 20 000 m geopotential (fields below sea level exist).
+//     Checked against Samuels MP, Arch Dis Child 2004;89:448–455, Table 1,
+//     and against GNU units' stdatmPH.
+//   - Water vapour saturation pressure: Wagner W, Pruß A, J Phys Chem Ref
+//     Data 1993;22:783 (IAPWS).
 //   - 14 CFR 25.841(a): 8 000 ft cabin altitude in normal operation.
 //   - Alveolar gas equation, simplified and full forms (Fenn, Rahn and Otis
 //     1946; as given in Egan's Fundamentals of Respiratory Care).
