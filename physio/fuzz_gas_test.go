@@ -60,7 +60,11 @@ func FuzzParsePressure(f *testing.F) {
 			unit string
 			v    float64
 		}{{"kPa", p.Kilopascals()}, {"psi", p.Psi()}, {"mmHg", p.MmHg()}} {
-			q, err := ParsePressure(strconv.FormatFloat(u.v, 'f', -1, 64) + " " + u.unit)
+			text := strconv.FormatFloat(u.v, 'f', -1, 64) + " " + u.unit
+			if len(text) > maxInputLen { // a tiny value printed in full
+				continue
+			}
+			q, err := ParsePressure(text)
 			if err != nil && !errors.Is(err, ErrOutOfRange) { // rounding at the range's edge
 				t.Fatalf("round trip of %q via %s: %v", s, u.unit, err)
 			}
