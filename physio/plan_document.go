@@ -382,7 +382,7 @@ func (w *planWalker) number(path string, n *jsonNode) *float64 {
 		return nil
 	}
 	if n.kind != jsonNumber {
-		w.fail(path, ErrSyntax, "got %s; want a number", planDescribe(n))
+		w.fail(path, ErrSyntax, "got %s; want a number%s", planDescribe(n), planKeyUnit(path))
 		return nil
 	}
 	v, err := strconv.ParseFloat(n.text, 64)
@@ -522,4 +522,24 @@ func (w *planWalker) document(root *jsonNode) *PlanDocument {
 		}
 	}
 	return d
+}
+
+// planKeyUnit names the unit a number key carries in its name, for type
+// errors (the range is checked, and named, once the type is right).
+func planKeyUnit(path string) string {
+	units := []struct{ suffix, unit string }{
+		{"_ft", "ft"}, {"_psi", "psi"}, {"_bar", "bar"}, {"_lpm", "L/min"}, {"minutes", "min"},
+		{"_mmhg", "mmHg"}, {"_percent", "%"}, {"_l", "L"}, {"_c", "°C"}, {"_g_dl", "g/dL"}, {"_years", "years"},
+		{"fio2", "(a fraction 0.21 to 1)"}, {"rq", "(a ratio 0.7 to 1)"}, {"reserve_factor", "(a multiplier 1 to 3)"},
+		{"count", "(a whole number)"}, {"version", "(1)"},
+	}
+	for _, u := range units {
+		if strings.HasSuffix(path, u.suffix) {
+			if strings.HasPrefix(u.unit, "(") {
+				return " " + u.unit
+			}
+			return " in " + u.unit
+		}
+	}
+	return ""
 }

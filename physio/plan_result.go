@@ -28,9 +28,9 @@ func (n *Number) UnmarshalJSON(b []byte) error {
 // FigureInput is one input a figure was computed from, as used (after
 // defaults), in the unit named.
 type FigureInput struct {
-	Name  string `json:"name"`
-	Value Number `json:"value"`
-	Unit  string `json:"unit,omitempty"`
+	Name  string  `json:"name"`
+	Value float64 `json:"value"` // to 4 decimal places, nearest
+	Unit  string  `json:"unit,omitempty"`
 }
 
 // Figure explains one number of a plan result: its rounded value and unit,

@@ -95,7 +95,7 @@ func (v *planValidator) num(path string, p *float64, l planLimit, required bool)
 		v.fail(path, ErrOutOfRange, "not a finite number; want %s to %s%s", fmtPlanNum(l.min), fmtPlanNum(l.max), l.unitSuffix())
 	case x > l.max:
 		hint := ""
-		if l.unit == "" && l.max == 1 && x > 1 && x <= 100 {
+		if l == limitFiO2 && x > 1 && x <= 100 {
 			hint = " (a fraction: write 0.4 for 40 %)"
 		}
 		v.fail(path, ErrOutOfRange, "%s is above the %s%s limit%s", fmtPlanNum(x), fmtPlanNum(l.max), l.unitSuffix(), hint)
