@@ -30,7 +30,12 @@ func (f *frame) OnMount(ctx app.Context) {
 	ctx.ObserveState(SettingsKey, &f.settings).OnChange(func() { applyTheme(f.settings.Theme) })
 	applyTheme(f.settings.Theme)
 	f.updateWaiting = updateWaiting()
-	app.Window().Get("document").Get("documentElement").Call("setAttribute", ReadyAttr, "wasm")
+	// Deferred: set after the frame that renders what the screens loaded in
+	// their own OnMount (children mount first), so a test that sees the
+	// marker sees the loaded values.
+	ctx.Defer(func(app.Context) {
+		app.Window().Get("document").Get("documentElement").Call("setAttribute", ReadyAttr, "wasm")
+	})
 	// Ask the browser to look for a new version now; one found is offered,
 	// never applied by itself.
 	app.TryUpdate()
