@@ -132,6 +132,12 @@ func parseBundle(data []byte) (*parsedBundle, error) {
 // (`alvea audit` prints them and exits with its damage status). Nothing is
 // ever written back to the bundle.
 func OpenBundle(ctx context.Context, data []byte, passphrase string) (*Vault, error) {
+	return openBundle(ctx, data, func(v *Vault) error { return v.Unlock(ctx, passphrase) })
+}
+
+// openBundle is OpenBundle with the unlock step given (tests reuse derived
+// keys to sweep many changed copies without a key derivation each).
+func openBundle(ctx context.Context, data []byte, unlock func(*Vault) error) (*Vault, error) {
 	p, err := parseBundle(data)
 	if err != nil {
 		return nil, err
@@ -139,7 +145,7 @@ func OpenBundle(ctx context.Context, data []byte, passphrase string) (*Vault, er
 	store := &memStore{records: map[uint64]Sealed{}, header: p.header}
 	v := newVault(store, p.header)
 	v.idle = 0
-	if err := v.Unlock(ctx, passphrase); err != nil {
+	if err := unlock(v); err != nil {
 		return nil, err
 	}
 	problems := append([]Problem(nil), p.problems...)
