@@ -21,7 +21,7 @@ var (
 	limitFieldFt     = planLimit{-2000, 18000, "ft", "the field elevation"} // model floor −610 m; highest roads ≈ 18 000 ft
 	limitCruiseFt    = planLimit{-2000, 51000, "ft", "the cruise altitude"}
 	limitCabinFt     = planLimit{-2000, 25000, "ft", "the stated cabin altitude"}
-	limitDiffPsi     = planLimit{0, 10, "psi", "the maximum pressure differential"}
+	limitDiffPsi     = planLimit{0, 11, "psi", "the maximum pressure differential"} // large business jets hold about 10.7 psi (common practice)
 	limitMinutes     = planLimit{1, 2880, "min", "the leg's duration"}
 	limitFiO2        = planLimit{0.21, 1, "", "FiO2 as a fraction (0.4, not 40)"}
 	limitPaO2        = planLimit{20, 700, "mmHg", "PaO2"}
