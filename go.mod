@@ -14,4 +14,5 @@ require (
 	github.com/google/uuid v1.6.0 // indirect
 	golang.org/x/crypto v0.59.0 // indirect
 	golang.org/x/sys v0.50.0 // indirect
+	golang.org/x/term v0.48.0 // indirect
 )
