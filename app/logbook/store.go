@@ -2,6 +2,7 @@ package logbook
 
 import (
 	"context"
+	"errors"
 	"slices"
 	"sync"
 )
@@ -69,18 +70,23 @@ type StorageStatus struct {
 }
 
 // Storage asks the store for persistence (when it can) and reports usage.
-// Stores that cannot report return a zero StorageStatus and no error.
+// Stores or browsers that cannot report (errors.ErrUnsupported) give a
+// StorageStatus with Known false and no error.
 func Storage(ctx context.Context, s Store) (StorageStatus, error) {
 	r, ok := s.(StorageReporter)
 	if !ok {
 		return StorageStatus{}, nil
 	}
 	granted, err := r.Persist(ctx)
-	if err != nil {
+	if errors.Is(err, errors.ErrUnsupported) {
+		return StorageStatus{}, nil
+	} else if err != nil {
 		return StorageStatus{}, err
 	}
 	usage, quota, err := r.Estimate(ctx)
-	if err != nil {
+	if errors.Is(err, errors.ErrUnsupported) {
+		return StorageStatus{Persistent: granted}, nil
+	} else if err != nil {
 		return StorageStatus{}, err
 	}
 	return StorageStatus{Known: true, Persistent: granted, Usage: usage, Quota: quota}, nil
