@@ -306,11 +306,24 @@ func (b *browser) waitReady() {
 		chromedp.WithPollingTimeout(60*time.Second)))
 }
 
-// waitFor waits until the JavaScript expression is truthy.
+// waitFor waits until the JavaScript expression is truthy. It keeps
+// waiting across page loads (a reload in between starts a new poll).
 func (b *browser) waitFor(what, expr string, timeout time.Duration) {
 	b.t.Helper()
-	if err := b.run(timeout+5*time.Second, chromedp.Poll[chromedp.Void](expr, chromedp.WithPollingTimeout(timeout), chromedp.WithPollingInterval(100*time.Millisecond))); err != nil {
-		b.t.Fatalf("waiting for %s (%s): %v", what, expr, err)
+	deadline := time.Now().Add(timeout)
+	for {
+		left := time.Until(deadline)
+		if left <= 0 {
+			left = time.Millisecond
+		}
+		err := b.run(left+5*time.Second, chromedp.Poll[chromedp.Void](expr, chromedp.WithPollingTimeout(left), chromedp.WithPollingInterval(100*time.Millisecond)))
+		if err == nil {
+			return
+		}
+		if time.Now().After(deadline) {
+			b.t.Fatalf("waiting for %s (%s): %v", what, expr, err)
+		}
+		time.Sleep(100 * time.Millisecond)
 	}
 }
 
