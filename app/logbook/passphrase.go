@@ -61,7 +61,9 @@ func CheckPassphrase(p string) error {
 		}
 	}
 	common := commonPasswords()
-	core := strings.TrimFunc(lower, func(r rune) bool { return unicode.IsDigit(r) || unicode.IsPunct(r) || unicode.IsSymbol(r) || unicode.IsSpace(r) })
+	core := strings.TrimFunc(lower, func(r rune) bool {
+		return unicode.IsDigit(r) || unicode.IsPunct(r) || unicode.IsSymbol(r) || unicode.IsSpace(r)
+	})
 	if core == "" {
 		return &PassphraseError{Reason: "digits and punctuation only"}
 	}

@@ -47,7 +47,7 @@ func sampleTransport(t testing.TB, v *Vault, start time.Time) TransportID {
 		Destination: Place{Name: "Coast Hospital", Elevation: physio.Metres(12), ElevationKnown: true},
 		Patient:     Patient{AgeBand: AgeAdult, Sex: SexFemale, WeightKg: 70},
 		Brief:       &Brief{Plan: json.RawMessage(`{"version":1}`), Result: json.RawMessage(`{"litres":900}`), EngineVersion: "test"},
-		Cylinders: []CylinderSpec{{Label: "A", Size: "E"}, {Label: "B", WaterCapacity: physio.Litres(10)}},
+		Cylinders:   []CylinderSpec{{Label: "A", Size: "E"}, {Label: "B", WaterCapacity: physio.Litres(10)}},
 	}})
 	add(&Entry{Kind: KindEvent, At: start.Add(10 * time.Minute), Event: &Event{Type: EventLiftOff}})
 	add(&Entry{Kind: KindGauge, At: start.Add(5 * time.Minute), Gauge: &GaugeReading{Cylinder: "A", Pressure: physio.Psi(2000)}})
