@@ -69,6 +69,14 @@ func NewHandler(root string) (*app.Handler, error) {
 	if err != nil {
 		return nil, err
 	}
+	// alvea.css first; any other style sheet under web/ (a screen's own)
+	// is linked after it, in name order.
+	styles := []string{"/web/alvea.css"}
+	for _, f := range files {
+		if strings.HasSuffix(f, ".css") && f != "alvea.css" {
+			styles = append(styles, "/web/"+f)
+		}
+	}
 	cacheable := make([]string, 0, len(files))
 	for _, f := range files {
 		if f == "app.wasm" || strings.HasPrefix(f, "app.wasm.") {
@@ -86,7 +94,7 @@ func NewHandler(root string) (*app.Handler, error) {
 		ThemeColor:            themeColor,
 		BackgroundColor:       backgroundTint,
 		LoadingLabel:          "Loading Alvea {progress}%",
-		Styles:                []string{"/web/alvea.css"},
+		Styles:                styles,
 		Scripts:               []string{"/web/alvea.js defer"},
 		CacheableResources:    cacheable,
 		RawHeaders:            []string{`<meta http-equiv="Content-Security-Policy" content="` + contentSecurityPolicy + `">`},

@@ -21,7 +21,7 @@ func (c *caution) Render() app.UI {
 		text = CautionText
 	}
 	return app.Aside().Class("alv-caution").Aria("label", "Caution").Body(
-		app.Span().Class("alv-caution-mark").Aria("hidden", true).Text("!"),
+		app.Span().Class("alv-caution-mark").Aria("hidden", "true").Text("!"),
 		app.P().Text(text),
 	)
 }

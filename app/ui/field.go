@@ -22,10 +22,14 @@ import (
 
 // numberField renders a labelled numeric input with its unit beside it and
 // its message under it. The input uses inputmode="decimal" so a tablet shows
-// the numeric keyboard; aria-invalid and aria-describedby tie the message to
-// the field. onInput receives the text as typed.
+// the numeric keyboard; aria-describedby ties the unit and the message to
+// the field, and aria-invalid marks a refused value. onInput receives the text as typed.
 func numberField(id, label, unit, value, message string, onInput func(ctx app.Context, text string)) app.UI {
-	msgID := id + "-msg"
+	msgID, unitID := id+"-msg", id+"-unit"
+	describedBy := unitID
+	if message != "" {
+		describedBy += " " + msgID
+	}
 	input := app.Input().
 		ID(id).
 		Class("alv-input").
@@ -34,18 +38,16 @@ func numberField(id, label, unit, value, message string, onInput func(ctx app.Co
 		Attr("autocomplete", "off").
 		Attr("spellcheck", "false").
 		Value(value).
-		Aria("invalid", message != "").
+		Aria("invalid", ariaBool(message != "")).
+		Aria("describedby", describedBy).
 		OnInput(func(ctx app.Context, e app.Event) {
 			onInput(ctx, ctx.JSSrc().Get("value").String())
 		})
-	if message != "" {
-		input = input.Aria("describedby", msgID)
-	}
 	return app.Div().Class("alv-field").Body(
 		app.Label().For(id).Text(label),
 		app.Div().Class("alv-input-row").Body(
 			input,
-			app.Span().Class("alv-unit").Aria("hidden", true).Text(unit),
+			app.Span().ID(unitID).Class("alv-unit").Text(unit),
 		),
 		app.If(message != "", func() app.UI {
 			return app.P().ID(msgID).Class("alv-error").Attr("role", "alert").Text(message)
@@ -62,7 +64,7 @@ func textField(id, label, value, message string, onInput func(ctx app.Context, t
 		Type("text").
 		Attr("autocomplete", "off").
 		Value(value).
-		Aria("invalid", message != "").
+		Aria("invalid", ariaBool(message != "")).
 		OnInput(func(ctx app.Context, e app.Event) {
 			onInput(ctx, ctx.JSSrc().Get("value").String())
 		})
@@ -92,7 +94,7 @@ func segmented(idPrefix, legend, current string, options []choice, onPick func(c
 			ID(idPrefix+"-"+o.Value).
 			Type("button").
 			Class("alv-seg-btn").
-			Aria("pressed", o.Value == current).
+			Aria("pressed", ariaBool(o.Value == current)).
 			Text(o.Label).
 			OnClick(func(ctx app.Context, e app.Event) { onPick(ctx, o.Value) }))
 	}
@@ -112,4 +114,15 @@ func how(summary string, body ...app.UI) app.UI {
 	return app.Details().Class("alv-how").Body(
 		append([]app.UI{app.Summary().Text(summary)}, body...)...,
 	)
+}
+
+// ariaBool spells a boolean ARIA state out as "true" or "false", as ARIA
+// wants. (go-app's prerender still writes "true" as a bare attribute; the
+// running app sets the value in the DOM, which is what assistive technology
+// reads once the app has started.)
+func ariaBool(v bool) string {
+	if v {
+		return "true"
+	}
+	return "false"
 }
