@@ -1,21 +1,111 @@
 package ui
 
-import "github.com/maxence-charriere/go-app/v10/pkg/app"
+import (
+	"time"
 
-// brief is the Brief screen. PLACEHOLDER: the screen itself is built in a
-// later step; this file is replaced whole, keeping newBrief as the
-// constructor the frame calls (see routes.go).
-type brief struct{ app.Compo }
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+)
 
-func newBrief() *brief { return &brief{} }
+// brief is the Brief screen: the whole plan chain as a form — route and
+// aircraft, legs with their oxygen set-ups, patient, cylinders on board,
+// reserve policy — recomputed by physio as the crew types, ending in the
+// go / no-go summary.
+//
+// Rendering is split so that a keystroke redraws little: each form card is
+// a child component that redraws itself when its own field changes; the
+// result panel redraws when the plan changes (its Rev); the other cards
+// are passed over (their Rev is unchanged, a cheap integer comparison).
+type brief struct {
+	app.Compo
 
-func (s *brief) Render() app.UI {
-	return app.Section().Class("alv-screen").Aria("labelledby", "brief-title").Body(
+	store DraftStore
+	s     *briefState
+}
+
+// briefState is shared by the Brief and its cards.
+type briefState struct {
+	draft    BriefDraft
+	settings Settings
+	model    *briefModel
+	store    DraftStore
+
+	rev     int // the plan changed: the result panel redraws
+	formRev int // the whole form must redraw (draft loaded, units changed)
+	saveGen int
+	open    map[string]bool // "How" disclosures the crew opened
+}
+
+// saveDelay gathers a burst of keystrokes into one save of the draft.
+const saveDelay = 300 * time.Millisecond
+
+func newBrief() *brief { return newBriefWith(localDraftStore{}) }
+
+// newBriefWith returns a Brief keeping its draft in store.
+func newBriefWith(store DraftStore) *brief {
+	s := &briefState{draft: NewBriefDraft(), settings: DefaultSettings(), store: store, open: map[string]bool{}}
+	s.recompute()
+	return &brief{store: store, s: s}
+}
+
+func (b *brief) OnMount(ctx app.Context) {
+	s := b.s
+	s.settings = LoadSettings(ctx)
+	ctx.ObserveState(SettingsKey, &s.settings).OnChange(func() {
+		s.recompute()
+		s.formRev++
+	})
+	if d, found, err := s.store.Load(ctx); err != nil {
+		app.Log(err)
+	} else if found {
+		s.draft = d
+	}
+	s.recompute()
+	s.formRev++
+}
+
+// recompute reads the fields and, when all are valid, computes the plan.
+func (s *briefState) recompute() {
+	s.model = buildBrief(s.draft, s.settings)
+	s.rev++
+}
+
+// changed is called after every edit: recompute now, save a moment later.
+func (s *briefState) changed(ctx app.Context) {
+	s.recompute()
+	s.saveGen++
+	gen := s.saveGen
+	ctx.After(saveDelay, func(ctx app.Context) {
+		// Saving changes nothing on screen: no redraw for it.
+		ctx.PreventUpdate()
+		if gen != s.saveGen {
+			return
+		}
+		if err := s.store.Save(ctx, s.draft.clone()); err != nil {
+			app.Log(err)
+		}
+	})
+}
+
+// restructured is changed for edits that add or remove form parts.
+func (s *briefState) restructured(ctx app.Context) {
+	s.formRev++
+	s.changed(ctx)
+}
+
+func (b *brief) Render() app.UI {
+	s := b.s
+	return app.Section().Class("alv-screen alv-brief").Aria("labelledby", "brief-title").Body(
 		app.H1().ID("brief-title").Text("Brief"),
 		newCaution(""),
-		app.Div().Class("alv-card alv-placeholder").Body(
-			app.H2().Class("alv-card-title").Text("Not built yet"),
-			app.P().Text("The pre-flight oxygen chain: route and aircraft, legs, patient, oxygen set-ups and cylinders, ending in the go / no-go summary."),
+		app.Div().Class("b-layout").Body(
+			app.Div().Class("b-form").Body(
+				&briefRoute{Rev: s.formRev, Msgs: s.msgSig("b-rt-"), s: s},
+				&briefLegs{Rev: s.formRev, Msgs: s.msgSig("b-leg"), s: s},
+				&briefPatient{Rev: s.formRev, Msgs: s.msgSig("b-pt-"), s: s},
+				&briefSupply{Rev: s.formRev, Msgs: s.msgSig("b-sup"), s: s},
+				&briefPolicy{Rev: s.formRev, Msgs: s.msgSig("b-pol-"), s: s},
+			),
+			&briefResult{Rev: s.rev, s: s},
 		),
 	)
 }

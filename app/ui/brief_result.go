@@ -1,0 +1,385 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"alvea/physio"
+)
+
+// briefResult is the Brief's result area. With any field invalid it shows
+// what to fix and no number at all; otherwise the go / no-go summary, the
+// warnings and every figure of the plan, each with its "How".
+type briefResult struct {
+	app.Compo
+	Rev int
+	s   *briefState
+}
+
+// Status texts of the summary line.
+var statusText = map[string]string{
+	physio.StatusGo:      "GO: nothing found against the plan",
+	physio.StatusCaution: "GO, WITH CAUTIONS: read them below",
+	physio.StatusNoGo:    "NO-GO: the plan as written does not hold",
+}
+
+func (c *briefResult) Render() app.UI {
+	s := c.s
+	m := s.model
+	body := []app.UI{app.H2().Class("alv-card-title").ID("b-result-title").Text("Plan")}
+	if !m.ok() {
+		body = append(body, s.fixList())
+	} else {
+		body = append(body, s.summary(m.result)...)
+	}
+	return app.Section().ID("b-result").Class("alv-card b-result").Aria("labelledby", "b-result-title").Body(body...)
+}
+
+// fixList says what to fix; it never shows a number computed from the form.
+func (s *briefState) fixList() app.UI {
+	m := s.model
+	items := make([]app.UI, 0, len(m.order)+len(m.other))
+	for _, id := range m.order {
+		id := id
+		where := m.labels[id]
+		text := m.msgs[id]
+		if where != "" {
+			text = where + ": " + text
+		}
+		items = append(items, app.Li().Body(
+			app.Button().Type("button").Class("b-fix-link").Text(text).
+				OnClick(func(ctx app.Context, e app.Event) {
+					el := app.Window().GetElementByID(id)
+					if el.Truthy() {
+						el.Call("focus")
+					}
+				}, app.EventScope("fix", id)),
+		))
+	}
+	for _, o := range m.other {
+		items = append(items, app.Li().Text(o))
+	}
+	return app.Div().ID("b-fix").Class("b-fix").Body(
+		app.P().ID("b-status").Class("b-status").DataSet("status", "incomplete").Attr("role", "status").
+			Text(fmt.Sprintf("No plan yet: %d thing(s) to fix or fill in.", len(items))),
+		app.P().Text("The plan appears when every field is valid. Tap an item to go to its field."),
+		app.Ul().Class("b-fix-list").Body(items...),
+	)
+}
+
+func (s *briefState) summary(r *physio.PlanResult) []app.UI {
+	out := []app.UI{
+		app.P().ID("b-status").Class("b-status").DataSet("status", r.Status).Attr("role", "status").Text(statusText[r.Status]),
+	}
+	// Key figures.
+	figs := []app.UI{}
+	if r.CabinAltitudeFt != nil {
+		figs = append(figs, s.fig("b-r-cabin", "Cabin altitude", r.Explain["cabin_altitude_ft"]))
+	}
+	figs = append(figs,
+		s.fig("b-r-highest", "Highest altitude", r.Explain["highest_altitude_ft"]),
+		s.fig("b-r-fio2", "FiO2 needed (highest leg)", r.Explain["fio2_needed"]),
+		s.fig("b-r-need", "Oxygen needed with reserve", r.Explain["oxygen_needed_l"]),
+		s.fig("b-r-usable", "Usable oxygen on board", r.Explain["oxygen_usable_l"]),
+		s.fig("b-r-margin", "Margin", r.Explain["oxygen_margin_l"]),
+		s.fig("b-r-calc", "Oxygen for the legs (no reserve)", r.Explain["oxygen_calculated_l"]),
+		s.fig("b-r-maxcabin", "FiO2 1.0 holds the ground state up to", r.Explain["max_cabin_altitude_ft"]),
+	)
+	if r.MaxCruiseAltitudeFt != nil {
+		figs = append(figs, s.fig("b-r-maxcruise", "Highest cruise for that cabin", r.Explain["max_cruise_altitude_ft"]))
+	}
+	if r.SupplyExhaustedMin != nil {
+		figs = append(figs, s.fig("b-r-exhausted", "Supply reaches the residual at minute", r.Explain["supply_exhausted_minute"]))
+	}
+	out = append(out, app.Div().Class("b-figs b-key").Body(figs...))
+
+	// Warnings.
+	if len(r.Warnings) > 0 {
+		items := make([]app.UI, 0, len(r.Warnings))
+		for _, w := range r.Warnings {
+			items = append(items, app.Li().Class("b-warn").DataSet("severity", w.Severity).DataSet("code", w.Code).Body(
+				app.Span().Class("b-sev").Text(severityText(w.Severity)),
+				app.Text(" "+w.Message),
+			))
+		}
+		out = append(out, app.H3().Text("Warnings"), app.Ul().ID("b-warnings").Class("b-warnings").Body(items...))
+	}
+
+	// Legs.
+	legs := make([]app.UI, 0, len(r.Legs))
+	for i, l := range r.Legs {
+		legs = append(legs, s.legResult(i, l))
+	}
+	out = append(out, app.H3().Text("Legs"), app.Div().Class("b-legs-result").Body(legs...))
+
+	// Ground state.
+	g := r.Ground
+	gfigs := []app.UI{
+		s.fig("b-r-g-pao2a", "PAO2 (alveolar)", g.Explain["pao2_alveolar_mmhg"]),
+	}
+	if f, ok := g.Explain["pao2_arterial_mmhg"]; ok {
+		gfigs = append(gfigs, s.fig("b-r-g-pao2", "PaO2 from SpO2", f))
+	}
+	if f, ok := g.Explain["spo2_percent"]; ok {
+		gfigs = append(gfigs, s.fig("b-r-g-spo2", "SpO2 from PaO2", f))
+	}
+	gfigs = append(gfigs,
+		s.fig("b-r-g-aa", "a/A ratio", g.Explain["aa_ratio"]),
+		s.fig("b-r-g-grad", "A-a gradient", g.Explain["aa_gradient_mmhg"]),
+	)
+	if f, ok := g.Explain["expected_aa_gradient_mmhg"]; ok {
+		gfigs = append(gfigs, s.fig("b-r-g-gradexp", "Upper normal A-a gradient for age", f))
+	}
+	if f, ok := g.Explain["cao2_ml_dl"]; ok {
+		gfigs = append(gfigs, s.fig("b-r-g-cao2", "Oxygen content", f))
+	}
+	out = append(out, app.H3().Text("Patient on the ground ("+g.MeasuredAt+")"), app.Div().Class("b-figs").Body(gfigs...))
+
+	// Cylinders.
+	if len(r.Cylinders) > 0 {
+		rows := make([]app.UI, 0, len(r.Cylinders))
+		for _, cy := range r.Cylinders {
+			rows = append(rows, app.Tr().Body(
+				app.Th().Scope("row").Text(fmt.Sprintf("%d. %s", cy.Order, cy.Name)),
+				app.Td().Class("alv-num-cell").Body(s.inline(fmt.Sprintf("b-r-cyl%d-usable", cy.Order), "usable", cy.Explain["usable_l"])),
+				app.Td().Class("alv-num-cell").Text(minuteText(cy.StartMinute)),
+				app.Td().Class("alv-num-cell").Text(changeText(cy, r)),
+			))
+		}
+		out = append(out, app.H3().Text("Cylinders in order of use"), app.Table().Class("alv-table b-cyl-table").Body(
+			app.THead().Body(app.Tr().Body(
+				app.Th().Scope("col").Text("Cylinder"), app.Th().Scope("col").Text("Usable"),
+				app.Th().Scope("col").Text("Opened"), app.Th().Scope("col").Text("At the residual"),
+			)),
+			app.TBody().Body(rows...),
+		))
+	}
+
+	// Trapped gas.
+	tg := r.TrappedGas
+	out = append(out, app.H3().Text("Trapped gas, origin to highest altitude"),
+		app.Div().Class("b-figs").Body(
+			s.fig("b-r-tg-ratio", "Expansion ratio", tg.Explain["ratio"]),
+			s.fig("b-r-tg-cuff", fmt.Sprintf("A %s mL air pocket becomes", tg.CuffMl), tg.Explain["cuff_at_altitude_ml"]),
+			s.fig("b-r-tg-ptx", fmt.Sprintf("A %s mL pneumothorax becomes", tg.PneumothoraxMl), tg.Explain["pneumothorax_at_altitude_ml"]),
+			s.fig("b-r-tg-rigid", "Sealed rigid space: overpressure up to", tg.Explain["rigid_overpressure_cmh2o"]),
+		),
+		app.P().Class("alv-note").Text(tg.Caution),
+	)
+
+	// Assumptions.
+	if len(r.Assumptions) > 0 {
+		items := make([]app.UI, 0, len(r.Assumptions))
+		for _, a := range r.Assumptions {
+			items = append(items, app.Li().Text(a.Path+" = "+a.Value+": "+a.Reason))
+		}
+		out = append(out, app.Details().Class("alv-how b-assume").Body(
+			app.Summary().Text(fmt.Sprintf("Defaults and method assumptions (%d)", len(items))),
+			app.Ul().Body(items...),
+		))
+	}
+	out = append(out, app.P().Class("alv-note b-plan-caution").Text(r.Caution))
+	return out
+}
+
+func (s *briefState) legResult(i int, l physio.PlanLegResult) app.UI {
+	id := func(what string) string { return fmt.Sprintf("b-r-leg%d-%s", i, what) }
+	title := fmt.Sprintf("Leg %d · %s · %s min · %s", i+1, whereText(l.Where), l.Minutes, deviceName(l.Device))
+	figs := []app.UI{
+		s.fig(id("alt"), "Altitude", l.Explain["altitude_ft"]),
+		s.fig(id("pb"), "Barometric pressure", l.Explain["pressure_mmhg"]),
+		s.fig(id("fio2"), "FiO2 needed", l.Explain["fio2_needed"]),
+		s.fig(id("fio2low"), "FiO2 of the set-up (low end)", l.Explain["fio2_delivered_low"]),
+		s.fig(id("pao2a"), "PAO2 at the set-up", l.Explain["pao2_mmhg"]),
+		s.fig(id("pao2"), "PaO2 expected", l.Explain["pao2_expected_mmhg"]),
+		s.fig(id("spo2"), "SpO2 expected", l.Explain["spo2_expected_percent"]),
+		s.fig(id("lpm"), "Oxygen flow", l.Explain["oxygen_lpm"]),
+		s.fig(id("litres"), "Oxygen for the leg", l.Explain["oxygen_l"]),
+	}
+	if f, ok := l.Explain["cao2_expected_ml_dl"]; ok {
+		figs = append(figs, s.fig(id("cao2"), "Oxygen content expected", f))
+	}
+	verdict := "The set-up covers the FiO2 needed."
+	cls := "b-verdict b-ok"
+	switch {
+	case !l.FiO2Possible:
+		verdict, cls = "Even FiO2 1.0 cannot hold the ground state on this leg.", "b-verdict b-bad"
+	case !l.Delivers:
+		verdict, cls = "The set-up may deliver less FiO2 than needed.", "b-verdict b-bad"
+	}
+	body := []app.UI{
+		app.H4().Class("b-leg-title").Text(title),
+		app.Div().Class("b-figs b-small").Body(figs...),
+		app.P().ID(id("verdict")).Class(cls).Text(verdict),
+	}
+	if len(l.Options) > 0 {
+		opts := make([]app.UI, 0, len(l.Options))
+		for _, o := range l.Options {
+			opts = append(opts, app.Li().Text(optionText(o)))
+		}
+		body = append(body,
+			app.P().Class("b-options-title").Text(fmt.Sprintf("Options that would deliver FiO2 %s — options, not orders; local protocol and medical direction decide:", l.FiO2Needed)),
+			app.Ul().ID(id("options")).Class("b-options").Body(opts...),
+		)
+	}
+	return app.Div().Class("b-leg-result").ID(id("box")).Body(body...)
+}
+
+func optionText(o physio.PlanOption) string {
+	fio2 := o.FiO2Low.String()
+	if o.FiO2High.Cmp(o.FiO2Low.Decimal) != 0 {
+		fio2 += " to " + o.FiO2High.String()
+	}
+	t := fmt.Sprintf("%s at %s L/min oxygen", deviceName(o.Device), o.OxygenLpm)
+	if o.TotalLpm.Cmp(o.OxygenLpm.Decimal) != 0 {
+		t += fmt.Sprintf(", %s L/min total", o.TotalLpm)
+	}
+	return t + " (FiO2 " + fio2 + ")"
+}
+
+func whereText(w string) string {
+	for _, c := range whereChoices {
+		if c.Value == w {
+			return c.Label
+		}
+	}
+	return w
+}
+
+func severityText(sev string) string {
+	switch sev {
+	case physio.SeverityNoGo:
+		return "NO-GO"
+	case physio.SeverityCaution:
+		return "CAUTION"
+	}
+	return "NOTE"
+}
+
+func minuteText(n *physio.Number) string {
+	if n == nil {
+		return "—"
+	}
+	return "minute " + n.String()
+}
+
+func changeText(cy physio.PlanCylinderResult, r *physio.PlanResult) string {
+	if cy.ChangeMinute == nil {
+		return "not during the transport"
+	}
+	t := "minute " + cy.ChangeMinute.String()
+	if cy.ChangeLeg != nil && *cy.ChangeLeg >= 0 && *cy.ChangeLeg < len(r.Legs) {
+		t += fmt.Sprintf(" (leg %d)", *cy.ChangeLeg+1)
+	}
+	return t
+}
+
+// ---- figures and their "How" ----
+
+// shownFigure returns a figure's number and unit in the display units.
+// A converted number is rounded in the figure's own direction, so the
+// safe side holds after conversion too.
+func (s *briefState) shownFigure(f physio.Figure) (num, unit, note string) {
+	r := roundingOf(f.Rounding)
+	v := f.Value.InexactFloat64()
+	switch {
+	case f.Unit == "ft" && s.settings.AltitudeUnit == UnitM:
+		if d, ok := physio.Round(physio.Feet(v).Metres(), 0, r); ok {
+			return d.String(), "m", "converted from " + f.Value.String() + " ft"
+		}
+	case f.Unit == "mmHg" && s.settings.GasUnit == UnitKPa:
+		if d, ok := physio.Round(physio.MmHg(v).Kilopascals(), 1, r); ok {
+			return d.String(), "kPa", "converted from " + f.Value.String() + " mmHg"
+		}
+	}
+	return f.Value.String(), f.Unit, ""
+}
+
+func roundingOf(s string) physio.Rounding {
+	switch s {
+	case "up":
+		return physio.RoundUp
+	case "down":
+		return physio.RoundDown
+	}
+	return physio.RoundNearest
+}
+
+// fig renders one figure: label, large number, unit, and its "How".
+func (s *briefState) fig(id, label string, f physio.Figure) app.UI {
+	num, unit, note := s.shownFigure(f)
+	return app.Div().Class("b-fig").ID(id).Body(
+		app.Span().Class("b-fig-label").Text(label),
+		app.Div().Class("alv-result").Body(
+			app.Span().ID(id+"-v").Class("alv-num").Text(num),
+			app.If(unit != "", func() app.UI { return app.Span().ID(id + "-u").Class("alv-unit").Text(unit) }),
+		),
+		s.how(id, label, f, note),
+	)
+}
+
+// inline renders a figure inside a table cell.
+func (s *briefState) inline(id, label string, f physio.Figure) app.UI {
+	num, unit, note := s.shownFigure(f)
+	return app.Div().ID(id).Body(
+		app.Span().ID(id+"-v").Class("b-cell-num").Text(num),
+		app.Text(" "+unit),
+		s.how(id, label, f, note),
+	)
+}
+
+// how is the "How" disclosure of a figure: the formula, the inputs it
+// used, the source and the rounding. Its body is built only while open.
+func (s *briefState) how(id, label string, f physio.Figure, note string) app.UI {
+	hid := id + "-how"
+	open := s.open[hid]
+	body := []app.UI{app.Summary().Body(app.Text("How"), app.Span().Class("b-sr").Text(": "+label))}
+	if open {
+		inputs := make([]app.UI, 0, len(f.Inputs))
+		for _, in := range f.Inputs {
+			t := in.Name + " = " + fmtNum(in.Value)
+			if in.Unit != "" {
+				t += " " + in.Unit
+			}
+			inputs = append(inputs, app.Li().Text(t))
+		}
+		dl := []app.UI{
+			app.Dt().Text("Formula"), app.Dd().Class("b-formula").Text(f.Formula),
+		}
+		if len(inputs) > 0 {
+			dl = append(dl, app.Dt().Text("Inputs"), app.Dd().Body(app.Ul().Body(inputs...)))
+		}
+		dl = append(dl,
+			app.Dt().Text("Source"), app.Dd().Text(f.Source),
+			app.Dt().Text("Rounding"), app.Dd().Text(roundingText(f.Rounding)),
+		)
+		if note != "" {
+			dl = append(dl, app.Dt().Text("Units"), app.Dd().Text(note))
+		}
+		body = append(body, app.Dl().Class("b-how").Body(dl...))
+	}
+	return app.Details().ID(hid).Class("alv-how").Open(open).
+		OnToggle(func(ctx app.Context, e app.Event) {
+			now := ctx.JSSrc().Get("open").Bool()
+			if now == s.open[hid] {
+				ctx.PreventUpdate()
+				return
+			}
+			s.open[hid] = now
+		}, app.EventScope(hid)).
+		Body(body...)
+}
+
+func roundingText(r string) string {
+	switch r {
+	case "up":
+		return "up, the safe side for this number"
+	case "down":
+		return "down, the safe side for this number"
+	case "nearest":
+		return "to the nearest; no decision rests on its last digit"
+	}
+	return strings.TrimSpace(r)
+}
