@@ -1,21 +1,537 @@
 package ui
 
-import "github.com/maxence-charriere/go-app/v10/pkg/app"
+import (
+	"fmt"
+	"strconv"
+	"strings"
+	"time"
 
-// supply is the Supply screen. PLACEHOLDER: the screen itself is built in a
-// later step; this file is replaced whole, keeping newSupply as the
-// constructor the frame calls (see routes.go).
-type supply struct{ app.Compo }
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
-func newSupply() *supply { return &supply{} }
+	"alvea/physio"
+)
+
+// Field and element ids of the Supply screen (used by its tests).
+const (
+	FieldSupplyGauge = "supply-gauge"
+	FieldSupplyFlow  = "supply-flow"
+)
+
+// supplyTick is how often the countdown is redrawn from the device clock.
+const supplyTick = 15 * time.Second
+
+// draftPlan returns the plan document of the current Brief draft, when the
+// Brief screen has one. Until the Brief's draft store is wired in here, the
+// Supply screen keeps its own cylinder list (see SupplySession).
+var draftPlan = func(ctx app.Context) (*physio.PlanDocument, bool) { return nil, false }
+
+// supply is the Supply screen: the cylinders on board and a live countdown
+// from the gauge reading and flow of the cylinder in use, with a plot of
+// the oxygen remaining against the clock.
+type supply struct {
+	app.Compo
+
+	settings Settings
+	session  SupplySession
+	fromPlan bool                   // the cylinders come from the Brief draft
+	legs     []physio.PlanLegResult // legs of the Brief draft's plan, if any
+
+	gaugeText, flowText string // the fields as typed
+	messages            FieldErrors
+	now                 func() time.Time
+	tick                time.Duration // 0: no ticking (component tests)
+	shown               time.Time     // the clock time of the last redraw
+	stop                chan struct{}
+}
+
+func newSupply() *supply {
+	s := &supply{now: time.Now, tick: supplyTick}
+	s.load(DefaultSettings(), defaultSupplySession())
+	return s
+}
+
+func (s *supply) load(st Settings, session SupplySession) {
+	s.settings = st
+	s.session = session
+	s.messages = FieldErrors{}
+	if s.now == nil {
+		s.now = time.Now
+	}
+	s.shown = s.now()
+	if r, ok := session.lastReading(); ok {
+		s.gaugeText = shownPressure(r.Gauge, r.GaugeUnit, st.PressureUnit)
+		s.flowText = r.Flow
+		s.session.InUse = r.Cylinder
+	} else {
+		s.gaugeText, s.flowText = "", ""
+	}
+}
+
+func (s *supply) OnMount(ctx app.Context) {
+	s.load(LoadSettings(ctx), loadSupplySession(ctx))
+	s.adoptDraft(ctx)
+	ctx.ObserveState(SettingsKey, &s.settings).OnChange(func() { s.unitsChanged() })
+	if s.tick > 0 {
+		stop := make(chan struct{})
+		s.stop = stop
+		ctx.Async(func() {
+			t := time.NewTicker(s.tick)
+			defer t.Stop()
+			for {
+				select {
+				case <-stop:
+					return
+				case <-t.C:
+					// Only the shown clock changes: the fields keep their
+					// text and the focus stays where the crew left it.
+					ctx.Dispatch(func(ctx app.Context) { s.shown = s.now() })
+				}
+			}
+		})
+	}
+}
+
+func (s *supply) OnDismount() {
+	if s.stop != nil {
+		close(s.stop)
+		s.stop = nil
+	}
+}
+
+// adoptDraft takes the cylinders (expanded by count) and the legs from the
+// Brief draft's plan, when there is one.
+func (s *supply) adoptDraft(ctx app.Context) {
+	doc, ok := draftPlan(ctx)
+	if !ok || doc == nil || len(doc.Supply) == 0 {
+		return
+	}
+	var cyls []SupplyCylinder
+	for _, line := range doc.Supply {
+		c := SupplyCylinder{Kind: string(line.Size)}
+		if line.WaterCapacityL != nil {
+			c.Kind = line.Name
+			if c.Kind == "" {
+				c.Kind = "WC " + strconv.FormatFloat(*line.WaterCapacityL, 'f', -1, 64) + " L"
+			}
+			c.WaterCapacity = strconv.FormatFloat(*line.WaterCapacityL, 'f', -1, 64)
+		}
+		switch {
+		case line.PressurePsi != nil:
+			c.Gauge, c.GaugeUnit = strconv.FormatFloat(*line.PressurePsi, 'f', -1, 64), UnitPsi
+		case line.PressureBar != nil:
+			c.Gauge, c.GaugeUnit = strconv.FormatFloat(*line.PressureBar, 'f', -1, 64), UnitBar
+		}
+		if _, err := c.physioCylinder(); err != nil || line.LabelContentsL != nil {
+			return // a kind this screen cannot count: keep its own list
+		}
+		n := 1
+		if line.Count != nil && *line.Count > 0 {
+			n = *line.Count
+		}
+		for i := 0; i < n; i++ {
+			cyls = append(cyls, c)
+		}
+	}
+	s.fromPlan = true
+	s.session.Cylinders = cyls
+	if s.session.InUse >= len(cyls) {
+		s.session.InUse = 0
+	}
+	if res, err := physio.ComputePlan(doc); err == nil {
+		s.legs = res.Legs
+	}
+}
+
+// unitsChanged redraws the fields in the new display unit; a stored
+// reading keeps the unit it was typed in.
+func (s *supply) unitsChanged() {
+	if r, ok := s.session.lastReading(); ok && s.messages[FieldSupplyGauge] == "" {
+		s.gaugeText = shownPressure(r.Gauge, r.GaugeUnit, s.settings.PressureUnit)
+	}
+}
+
+func (s *supply) residual() (physio.Pressure, time.Duration, string) {
+	res, err := s.settings.SafeResidualPressure()
+	if err != nil {
+		return 0, 0, "The safe residual in Settings is not valid."
+	}
+	minutes, msg := ruleReserveMin.Check(s.settings.ReserveMinutes)
+	if msg != "" {
+		return 0, 0, "The added reserve time in Settings is not valid."
+	}
+	return res, time.Duration(minutes.IntPart()) * time.Minute, ""
+}
+
+// edit handles typing into the gauge or flow field: a valid pair becomes
+// the current reading (at the device clock's time) and is kept at once.
+func (s *supply) edit(ctx app.Context, field, text string) {
+	switch field {
+	case FieldSupplyGauge:
+		s.gaugeText = text
+	case FieldSupplyFlow:
+		s.flowText = text
+	}
+	s.commit(ctx)
+}
+
+func (s *supply) commit(ctx app.Context) {
+	s.messages = FieldErrors{}
+	unit := s.settings.PressureUnit
+	in := s.session.InUse
+	if in < 0 || in >= len(s.session.Cylinders) {
+		return
+	}
+	cyl, err := s.session.Cylinders[in].physioCylinder()
+	if err != nil {
+		s.messages[FieldSupplyGauge] = "This cylinder is not in the catalogue."
+		return
+	}
+	if _, msg := gaugeRule(cyl, unit).Check(s.gaugeText); msg != "" {
+		s.messages[FieldSupplyGauge] = msg
+	}
+	if _, msg := ruleFlow.Check(s.flowText); msg != "" {
+		s.messages[FieldSupplyFlow] = msg
+	}
+	if len(s.messages) > 0 {
+		return
+	}
+	now := s.now()
+	s.shown = now
+	s.session.record(SupplyReading{
+		AtUnixMilli: now.UnixMilli(),
+		Cylinder:    in,
+		Gauge:       strings.ReplaceAll(strings.TrimSpace(s.gaugeText), ",", "."),
+		GaugeUnit:   unit,
+		Flow:        strings.ReplaceAll(strings.TrimSpace(s.flowText), ",", "."),
+	})
+	saveSupplySession(ctx, s.session)
+}
+
+// pickInUse changes the cylinder in use; the gauge field then waits for its
+// reading.
+func (s *supply) pickInUse(ctx app.Context, i int) {
+	if i == s.session.InUse || i < 0 || i >= len(s.session.Cylinders) {
+		return
+	}
+	s.session.InUse = i
+	c := s.session.Cylinders[i]
+	s.gaugeText = shownPressure(c.Gauge, c.GaugeUnit, s.settings.PressureUnit)
+	s.commit(ctx)
+	saveSupplySession(ctx, s.session)
+}
+
+// The own cylinder list (used while no Brief draft gives one).
+
+func (s *supply) cylinderKinds() []choice {
+	out := []choice{}
+	for _, size := range []physio.CylinderSize{physio.SizeD, physio.SizeE, physio.SizeM, physio.SizeG, physio.SizeH} {
+		out = append(out, choice{string(size), string(size) + " (CGA size)"})
+	}
+	for _, c := range s.settings.Cylinders {
+		out = append(out, choice{c.Name, c.Name + " (" + c.WaterCapacity + " L water)"})
+	}
+	return out
+}
+
+func (s *supply) setKind(ctx app.Context, i int, kind string) {
+	if i < 0 || i >= len(s.session.Cylinders) {
+		return
+	}
+	c := SupplyCylinder{Kind: kind, Gauge: s.session.Cylinders[i].Gauge, GaugeUnit: s.session.Cylinders[i].GaugeUnit}
+	for _, own := range s.settings.Cylinders {
+		if own.Name == kind {
+			c.WaterCapacity = own.WaterCapacity
+		}
+	}
+	s.session.Cylinders[i] = c
+	saveSupplySession(ctx, s.session)
+}
+
+func (s *supply) setStartGauge(ctx app.Context, i int, text string) {
+	if i < 0 || i >= len(s.session.Cylinders) {
+		return
+	}
+	s.session.Cylinders[i].Gauge = strings.ReplaceAll(strings.TrimSpace(text), ",", ".")
+	s.session.Cylinders[i].GaugeUnit = s.settings.PressureUnit
+	saveSupplySession(ctx, s.session)
+}
+
+func (s *supply) addCylinder(ctx app.Context, e app.Event) {
+	c := SupplyCylinder{Kind: string(physio.SizeE), Gauge: "2000", GaugeUnit: UnitPsi}
+	if n := len(s.session.Cylinders); n > 0 {
+		c = s.session.Cylinders[n-1]
+	}
+	s.session.Cylinders = append(s.session.Cylinders, c)
+	saveSupplySession(ctx, s.session)
+}
+
+func (s *supply) removeCylinder(ctx app.Context, i int) {
+	if len(s.session.Cylinders) <= 1 || i < 0 || i >= len(s.session.Cylinders) {
+		return
+	}
+	s.session.Cylinders = append(s.session.Cylinders[:i:i], s.session.Cylinders[i+1:]...)
+	if s.session.InUse >= len(s.session.Cylinders) {
+		s.session.InUse = len(s.session.Cylinders) - 1
+	}
+	saveSupplySession(ctx, s.session)
+}
+
+// newTransport clears the readings (the cylinders stay).
+func (s *supply) newTransport(ctx app.Context, e app.Event) {
+	s.session.Readings = nil
+	s.session.InUse = 0
+	s.gaugeText, s.flowText = "", ""
+	s.messages = FieldErrors{}
+	saveSupplySession(ctx, s.session)
+}
+
+// current computes the countdown from the last reading, if the fields are
+// valid; otherwise the message to show instead of numbers.
+func (s *supply) current() (countdown, string) {
+	if len(s.messages) > 0 {
+		return countdown{}, "Correct the marked field to see the countdown."
+	}
+	r, ok := s.session.lastReading()
+	if !ok {
+		return countdown{}, "Enter the gauge reading and flow of the cylinder in use."
+	}
+	residual, added, msg := s.residual()
+	if msg != "" {
+		return countdown{}, msg
+	}
+	return computeCountdown(supplyInputs{Cylinders: s.session.Cylinders, Reading: r, Residual: residual, AddedMin: added})
+}
 
 func (s *supply) Render() app.UI {
-	return app.Section().Class("alv-screen").Aria("labelledby", "supply-title").Body(
+	cd, msg := s.current()
+	return app.Section().Class("alv-screen alv-supply").Aria("labelledby", "supply-title").Body(
 		app.H1().ID("supply-title").Text("Supply"),
 		newCaution(""),
-		app.Div().Class("alv-card alv-placeholder").Body(
-			app.H2().Class("alv-card-title").Text("Not built yet"),
-			app.P().Text("The cylinders on board and the live countdown from gauge readings, with a plot of oxygen remaining."),
+		app.Div().Class("alv-grid").Body(
+			s.renderReading(),
+			s.renderCountdown(cd, msg),
+		),
+		s.renderPlot(cd, msg),
+		s.renderCylinders(),
+	)
+}
+
+func (s *supply) renderReading() app.UI {
+	unit := s.settings.PressureUnit
+	choices := make([]choice, len(s.session.Cylinders))
+	for i, c := range s.session.Cylinders {
+		choices[i] = choice{strconv.Itoa(i), fmt.Sprintf("%d · %s", i+1, c.Kind)}
+	}
+	return app.Div().Class("alv-card").Body(
+		app.H2().Class("alv-card-title").Text("Gauge reading"),
+		segmented("supply-inuse", "Cylinder in use", strconv.Itoa(s.session.InUse), choices,
+			func(ctx app.Context, v string) {
+				i, _ := strconv.Atoi(v)
+				s.pickInUse(ctx, i)
+			}),
+		app.Div().Class("alv-form-row").Body(
+			numberField(FieldSupplyGauge, "Gauge now", unit, s.gaugeText, s.messages[FieldSupplyGauge],
+				func(ctx app.Context, v string) { s.edit(ctx, FieldSupplyGauge, v) }),
+			numberField(FieldSupplyFlow, "Flow now", "L/min", s.flowText, s.messages[FieldSupplyFlow],
+				func(ctx app.Context, v string) { s.edit(ctx, FieldSupplyFlow, v) }),
+		),
+		app.P().Class("alv-note").Text("Kept on this device as you type, with the time of the device clock."),
+	)
+}
+
+func (s *supply) renderCountdown(cd countdown, msg string) app.UI {
+	card := app.Div().Class("alv-card alv-countdown").ID("supply-countdown").Aria("live", "polite")
+	if msg != "" {
+		return card.Body(
+			app.H2().Class("alv-card-title").Text("Countdown"),
+			app.P().ID("supply-countdown-msg").Class("alv-empty").Text(msg),
+		)
+	}
+	residual := s.settings.SafeResidualShown() + " " + s.settings.PressureUnit
+	usable, _ := physio.Round(cd.InUseUsable.Litres(), 0, physio.RoundDown)
+	total, _ := physio.Round(cd.TotalUsable.Litres(), 0, physio.RoundDown)
+	reserveL, _ := physio.Round(cd.Reserve.Litres(), 0, physio.RoundUp)
+	reserveAt := clock(cd.ReserveAt())
+	if cd.ReserveReach {
+		reserveAt = "now"
+	}
+	return card.DataSet("reading-at", strconv.FormatInt(cd.ReadingAt.UnixMilli(), 10)).Body(
+		app.H2().Class("alv-card-title").Text("Countdown"),
+		app.Div().Class("alv-figures").Body(
+			figure("supply-minutes", "Minutes left on the cylinder in use", strconv.FormatInt(cd.MinutesLeft(s.shown), 10), "min"),
+			figure("supply-change-at", "Change cylinder at", clock(cd.ChangeAt()), ""),
+			figure("supply-reserve-at", "Reserve reached at", reserveAt, ""),
+		),
+		app.P().Class("alv-note").Body(
+			app.Text("At the reading ("+clock(cd.ReadingAt)+"): "),
+			app.Span().ID("supply-minutes-reading").Text(strconv.FormatInt(cd.MinutesAtReading(), 10)),
+			app.Text(" min to "+residual+"; "),
+			app.Span().ID("supply-usable").Text(usable.String()),
+			app.Text(" L usable in it, "),
+			app.Span().ID("supply-total").Text(total.String()),
+			app.Text(" L on board."),
+		),
+		how("How",
+			app.P().Text("Usable litres above the safe residual ("+residual+", from Settings): cylinder factor (L/psi) × (gauge − residual) for CGA sizes, water capacity (L) × (gauge − residual in bar) for others (common practice)."),
+			app.P().Text("Minutes left = usable litres ÷ flow, counted from the time of the reading on the device clock; rounded down, and clock times truncated to the minute (earlier is the safe side)."),
+			app.P().Text(fmt.Sprintf("Reserve: the added reserve time in Settings (%d min) at the current flow = %s L. Cylinders after the one in use count at their starting gauge; cylinders before it count as spent.",
+				int64(cd.ReserveAddMin/time.Minute), reserveL.String())),
+		),
+	)
+}
+
+// figure is one large computed number with its label and unit.
+func figure(id, label, value, unit string) app.UI {
+	return app.Div().Class("alv-figure").Body(
+		app.Span().Class("alv-figure-label").ID(id+"-label").Text(label),
+		app.Div().Class("alv-result").Body(
+			app.Span().Class("alv-num").ID(id).Aria("labelledby", id+"-label").Text(value),
+			app.If(unit != "", func() app.UI { return app.Span().Class("alv-unit").Text(unit) }),
+		),
+	)
+}
+
+// renderPlot draws the oxygen on board against the clock: the readings,
+// the projection from the last one at its flow, the reserve line and the
+// legs of the Brief draft's plan.
+func (s *supply) renderPlot(cd countdown, msg string) app.UI {
+	card := app.Div().Class("alv-card")
+	title := app.H2().Class("alv-card-title").Text("Oxygen on board")
+	if msg != "" || len(s.session.Readings) == 0 {
+		return card.Body(title, app.P().Class("alv-empty").Text("The plot appears with the first valid reading."))
+	}
+	residual, added, rmsg := s.residual()
+	if rmsg != "" {
+		return card.Body(title, app.P().Class("alv-empty").Text(rmsg))
+	}
+	start := s.session.Readings[0].At()
+	minutesFrom := func(t time.Time) float64 { return t.Sub(start).Minutes() }
+	var readings []plotPoint
+	for _, r := range s.session.Readings {
+		c, m := computeCountdown(supplyInputs{Cylinders: s.session.Cylinders, Reading: r, Residual: residual, AddedMin: added})
+		if m != "" {
+			continue
+		}
+		l, _ := physio.Round(c.TotalUsable.Litres(), 0, physio.RoundDown)
+		readings = append(readings, plotPoint{minutesFrom(r.At()), l.InexactFloat64()})
+	}
+	at := minutesFrom(cd.ReadingAt)
+	total, _ := physio.Round(cd.TotalUsable.Litres(), 0, physio.RoundDown)
+	reserve, _ := physio.Round(cd.Reserve.Litres(), 0, physio.RoundUp)
+	projection := []plotPoint{{at, total.InexactFloat64()}}
+	if !cd.ReserveReach {
+		projection = append(projection, plotPoint{at + cd.ToReserve.Minutes(), reserve.InexactFloat64()})
+	}
+	projection = append(projection, plotPoint{at + cd.ToEmpty.Minutes(), 0})
+	xMax := at + cd.ToEmpty.Minutes()
+	var bands []plotBand
+	for _, l := range s.legs {
+		x0 := l.StartMinute.InexactFloat64()
+		x1 := x0 + l.Minutes.InexactFloat64()
+		name := l.Label
+		if name == "" {
+			name = fmt.Sprintf("Leg %d (%s)", l.Index+1, l.Where)
+		}
+		bands = append(bands, plotBand{X0: x0, X1: x1, Label: name})
+		if x1 > xMax {
+			xMax = x1
+		}
+	}
+	yMax := total.InexactFloat64()
+	for _, p := range readings {
+		if p.Y > yMax {
+			yMax = p.Y
+		}
+	}
+	spec := plotSpec{
+		ID:    "supply-plot",
+		Title: "Oxygen on board against the clock",
+		Desc: fmt.Sprintf("%d readings. At the last reading, %s L usable on board; at %s L/min the reserve of %s L is reached at %s and every cylinder is at the residual at %s.",
+			len(readings), total.String(), strconv.FormatFloat(cd.Flow.LitresPerMinute(), 'f', -1, 64), reserve.String(), clock(cd.ReserveAt()), clock(cd.EmptyAt())),
+		X:      plotAxis{Label: "Clock time", Unit: "local", Min: 0, Max: xMax, Format: axisClock, ClockRef: start},
+		Y:      plotAxis{Label: "Usable oxygen on board", Unit: "L", Min: 0, Max: yMax},
+		Lines:  []plotLine{{Name: "Readings", Class: "alv-plot-line-1", Points: readings, Markers: true}, {Name: "Projection at the current flow", Class: "alv-plot-proj", Points: projection}},
+		HMarks: []plotHMark{{Y: reserve.InexactFloat64(), Label: "Reserve " + reserve.String() + " L"}},
+		VMarks: []plotVMark{{X: minutesFrom(cd.ChangeAt()), Label: "Change " + clock(cd.ChangeAt())}},
+		Bands:  bands,
+	}
+	note := "Legs are marked when the Brief has a plan; the first reading starts the transport clock."
+	if len(bands) > 0 {
+		note = "Legs from the Brief's plan, counted from the first reading."
+	}
+	return card.Body(title, plotFigure(spec), app.P().Class("alv-note").Text(note))
+}
+
+func (s *supply) renderCylinders() app.UI {
+	unit := s.settings.PressureUnit
+	rows := make([]app.UI, 0, len(s.session.Cylinders))
+	kinds := s.cylinderKinds()
+	for i, c := range s.session.Cylinders {
+		i, c := i, c
+		id := fmt.Sprintf("supply-cyl-%d", i)
+		var kindCell, gaugeCell app.UI
+		gauge := shownPressure(c.Gauge, c.GaugeUnit, unit)
+		if s.fromPlan {
+			kindCell = app.Text(c.Kind)
+			gaugeCell = app.Text(gauge + " " + unit)
+		} else {
+			opts := make([]app.UI, 0, len(kinds))
+			for _, k := range kinds {
+				opts = append(opts, app.Option().Value(k.Value).Selected(k.Value == c.Kind).Text(k.Label))
+			}
+			kindCell = app.Select().ID(id+"-kind").Class("alv-select").Aria("label", fmt.Sprintf("Cylinder %d size", i+1)).
+				OnChange(func(ctx app.Context, e app.Event) { s.setKind(ctx, i, ctx.JSSrc().Get("value").String()) }).
+				Body(opts...)
+			msg := ""
+			if cyl, err := c.physioCylinder(); err == nil {
+				_, msg = gaugeRule(cyl, unit).Check(gauge)
+			}
+			gaugeCell = numberField(id+"-gauge", fmt.Sprintf("Cylinder %d gauge at the start", i+1), unit, gauge, msg,
+				func(ctx app.Context, v string) { s.setStartGauge(ctx, i, v) })
+		}
+		usable := "—"
+		if res, _, m := s.residual(); m == "" {
+			if v, m := usableAt(c, c.Gauge, c.GaugeUnit, res); m == "" {
+				if d, ok := physio.Round(v.Litres(), 0, physio.RoundDown); ok {
+					usable = d.String() + " L"
+				}
+			}
+		}
+		row := app.Tr().Body(
+			app.Th().Scope("row").Text(strconv.Itoa(i+1)),
+			app.Td().Body(kindCell),
+			app.Td().Body(gaugeCell),
+			app.Td().Class("alv-num-cell").ID(id+"-usable").Text(usable),
+			app.Td().Body(app.If(!s.fromPlan && len(s.session.Cylinders) > 1, func() app.UI {
+				return app.Button().Type("button").Class("alv-button").ID(id+"-remove").
+					Aria("label", fmt.Sprintf("Remove cylinder %d", i+1)).Text("Remove").
+					OnClick(func(ctx app.Context, e app.Event) { s.removeCylinder(ctx, i) })
+			})),
+		)
+		rows = append(rows, row)
+	}
+	source := "Your list (the Brief's plan gives it when there is one). Cylinders are used in this order."
+	if s.fromPlan {
+		source = "From the Brief's plan; change them there. Cylinders are used in this order."
+	}
+	return app.Div().Class("alv-card").Body(
+		app.H2().Class("alv-card-title").Text("Cylinders on board"),
+		app.P().Class("alv-note").Text(source),
+		app.Table().Class("alv-table alv-cyl-table").Body(
+			app.THead().Body(app.Tr().Body(
+				app.Th().Scope("col").Text("#"),
+				app.Th().Scope("col").Text("Size"),
+				app.Th().Scope("col").Text("Gauge at the start"),
+				app.Th().Scope("col").Text("Usable above residual"),
+				app.Th().Scope("col").Body(app.Span().Class("alv-sr").Text("Actions")),
+			)),
+			app.TBody().Body(rows...),
+		),
+		app.Div().Class("alv-actions").Body(
+			app.If(!s.fromPlan, func() app.UI {
+				return app.Button().ID("supply-add").Type("button").Class("alv-button").Text("Add cylinder").OnClick(s.addCylinder)
+			}),
+			app.Button().ID("supply-new").Type("button").Class("alv-button").Text("New transport (clear readings)").OnClick(s.newTransport),
 		),
 	)
 }
