@@ -2,14 +2,14 @@ package ui
 
 import "github.com/maxence-charriere/go-app/v10/pkg/app"
 
-// logbook is the Logbook screen. PLACEHOLDER: the screen itself is built in a
+// logbookScreen is the Logbook screen. PLACEHOLDER: the screen itself is built in a
 // later step; this file is replaced whole, keeping newLogbook as the
 // constructor the frame calls (see routes.go).
-type logbook struct{ app.Compo }
+type logbookScreen struct{ app.Compo }
 
-func newLogbook() *logbook { return &logbook{} }
+func newLogbook() *logbookScreen { return &logbookScreen{} }
 
-func (s *logbook) Render() app.UI {
+func (s *logbookScreen) Render() app.UI {
 	return app.Section().Class("alv-screen").Aria("labelledby", "logbook-title").Body(
 		app.H1().ID("logbook-title").Text("Logbook"),
 		newCaution(""),
