@@ -26,7 +26,7 @@ const (
 	plotWidth   = 640.0
 	plotHeight  = 340.0
 	plotLeft    = 72.0 // room for tick labels and the y-axis title
-	plotRight   = 20.0
+	plotRight   = 34.0
 	plotTop     = 20.0
 	plotBottom  = 58.0 // room for tick labels and the x-axis title
 	plotMaxTick = 6
@@ -341,7 +341,7 @@ func plotFigure(p plotSpec) app.UI {
 			app.Text(h.Label),
 		))
 	}
-	return app.Figure().Class("alv-plot").ID(p.ID + "-figure").Body(
+	return app.Figure().Class("alv-plot").ID(p.ID+"-figure").Body(
 		app.Raw(p.SVG()),
 		app.FigCaption().Body(
 			app.Ul().Class("alv-legend").Body(legend...),

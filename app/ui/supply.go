@@ -20,10 +20,26 @@ const (
 // supplyTick is how often the countdown is redrawn from the device clock.
 const supplyTick = 15 * time.Second
 
-// draftPlan returns the plan document of the current Brief draft, when the
-// Brief screen has one. Until the Brief's draft store is wired in here, the
-// Supply screen keeps its own cylinder list (see SupplySession).
-var draftPlan = func(ctx app.Context) (*physio.PlanDocument, bool) { return nil, false }
+// draftPlan returns the plan document of the current Brief draft, read
+// through the Brief's DraftStore, when the draft is complete enough for
+// physio to compute it. Otherwise the Supply screen keeps its own cylinder
+// list (see SupplySession) and the Altitude screen its example values.
+// Tests replace it.
+var draftPlan = func(ctx app.Context) (*physio.PlanDocument, bool) {
+	return planFromDraft(ctx, localDraftStore{})
+}
+
+func planFromDraft(ctx app.Context, store DraftStore) (*physio.PlanDocument, bool) {
+	d, found, err := store.Load(ctx)
+	if err != nil || !found {
+		return nil, false
+	}
+	m := buildBrief(d, LoadSettings(ctx))
+	if m == nil || !m.ok() || m.doc == nil {
+		return nil, false
+	}
+	return m.doc, true
+}
 
 // supply is the Supply screen: the cylinders on board and a live countdown
 // from the gauge reading and flow of the cylinder in use, with a plot of
@@ -351,7 +367,7 @@ func (s *supply) renderCountdown(cd countdown, msg string) app.UI {
 	usable, _ := physio.Round(cd.InUseUsable.Litres(), 0, physio.RoundDown)
 	total, _ := physio.Round(cd.TotalUsable.Litres(), 0, physio.RoundDown)
 	reserveL, _ := physio.Round(cd.Reserve.Litres(), 0, physio.RoundUp)
-	reserveAt := clock(cd.ReserveAt())
+	reserveAt := hhmm(cd.ReserveAt())
 	if cd.ReserveReach {
 		reserveAt = "now"
 	}
@@ -359,11 +375,11 @@ func (s *supply) renderCountdown(cd countdown, msg string) app.UI {
 		app.H2().Class("alv-card-title").Text("Countdown"),
 		app.Div().Class("alv-figures").Body(
 			figure("supply-minutes", "Minutes left on the cylinder in use", strconv.FormatInt(cd.MinutesLeft(s.shown), 10), "min"),
-			figure("supply-change-at", "Change cylinder at", clock(cd.ChangeAt()), ""),
+			figure("supply-change-at", "Change cylinder at", hhmm(cd.ChangeAt()), ""),
 			figure("supply-reserve-at", "Reserve reached at", reserveAt, ""),
 		),
 		app.P().Class("alv-note").Body(
-			app.Text("At the reading ("+clock(cd.ReadingAt)+"): "),
+			app.Text("At the reading ("+hhmm(cd.ReadingAt)+"): "),
 			app.Span().ID("supply-minutes-reading").Text(strconv.FormatInt(cd.MinutesAtReading(), 10)),
 			app.Text(" min to "+residual+"; "),
 			app.Span().ID("supply-usable").Text(usable.String()),
@@ -447,12 +463,12 @@ func (s *supply) renderPlot(cd countdown, msg string) app.UI {
 		ID:    "supply-plot",
 		Title: "Oxygen on board against the clock",
 		Desc: fmt.Sprintf("%d readings. At the last reading, %s L usable on board; at %s L/min the reserve of %s L is reached at %s and every cylinder is at the residual at %s.",
-			len(readings), total.String(), strconv.FormatFloat(cd.Flow.LitresPerMinute(), 'f', -1, 64), reserve.String(), clock(cd.ReserveAt()), clock(cd.EmptyAt())),
+			len(readings), total.String(), strconv.FormatFloat(cd.Flow.LitresPerMinute(), 'f', -1, 64), reserve.String(), hhmm(cd.ReserveAt()), hhmm(cd.EmptyAt())),
 		X:      plotAxis{Label: "Clock time", Unit: "local", Min: 0, Max: xMax, Format: axisClock, ClockRef: start},
 		Y:      plotAxis{Label: "Usable oxygen on board", Unit: "L", Min: 0, Max: yMax},
 		Lines:  []plotLine{{Name: "Readings", Class: "alv-plot-line-1", Points: readings, Markers: true}, {Name: "Projection at the current flow", Class: "alv-plot-proj", Points: projection}},
 		HMarks: []plotHMark{{Y: reserve.InexactFloat64(), Label: "Reserve " + reserve.String() + " L"}},
-		VMarks: []plotVMark{{X: minutesFrom(cd.ChangeAt()), Label: "Change " + clock(cd.ChangeAt())}},
+		VMarks: []plotVMark{{X: minutesFrom(cd.ChangeAt()), Label: "Change " + hhmm(cd.ChangeAt())}},
 		Bands:  bands,
 	}
 	note := "Legs are marked when the Brief has a plan; the first reading starts the transport clock."

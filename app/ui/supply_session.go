@@ -302,5 +302,5 @@ func computeCountdown(in supplyInputs) (countdown, string) {
 	return c, ""
 }
 
-// clock writes a time as local HH:MM.
-func clock(t time.Time) string { return t.Local().Format("15:04") }
+// hhmm writes a time as local HH:MM.
+func hhmm(t time.Time) string { return t.Local().Format("15:04") }
