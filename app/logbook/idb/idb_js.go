@@ -32,10 +32,6 @@ var (
 	_ logbook.StorageReporter = (*Store)(nil)
 )
 
-// ErrUnavailable: the browser offers no IndexedDB (private mode in some
-// browsers, or storage disabled).
-var ErrUnavailable = errors.New("idb: IndexedDB not available")
-
 // Open opens (creating on first use) the vault database.
 func Open(ctx context.Context) (*Store, error) { return OpenNamed(ctx, DBName) }
 
@@ -90,9 +86,18 @@ func await(ctx context.Context, target js.Value, success string, failures ...str
 		funcs[i] = js.FuncOf(func(this js.Value, args []js.Value) any {
 			if ev == success {
 				finish(nil)
-			} else {
-				finish(domError(target, ev))
+				return nil
 			}
+			// A failed request's error event bubbles to its transaction
+			// before the transaction records the error: read the error
+			// from the event's target (the request), then the target.
+			from := target
+			if len(args) > 0 && args[0].Truthy() {
+				if t := args[0].Get("target"); t.Truthy() && t.Get("error").Truthy() {
+					from = t
+				}
+			}
+			finish(domError(from, ev))
 			return nil
 		})
 		target.Set("on"+ev, funcs[i])

@@ -1,0 +1,311 @@
+package ui
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"sync"
+	"time"
+
+	"alvea/app/logbook"
+)
+
+// The vault session: one encrypted Logbook vault per app, shared by the
+// screens. It opens the browser store (IndexedDB; memory in native tests),
+// knows whether a vault exists and whether it is unlocked, locks itself
+// after the idle time, and tells the mounted screens when any of that
+// changes so they redraw.
+//
+// Every method that touches the store or derives a key blocks: call it from
+// a goroutine (ctx.Async), never from an event handler directly (blocking
+// inside a browser callback deadlocks the Go runtime in the browser).
+
+// vaultPhase is where the session stands.
+type vaultPhase int
+
+const (
+	phaseUnknown     vaultPhase = iota // the store has not been opened yet
+	phaseUnavailable                   // the browser offers no storage (see Err)
+	phaseEmpty                         // no vault yet: create one or import a bundle
+	phaseLocked                        // a vault exists and is locked
+	phaseUnlocked                      // the vault is unlocked
+)
+
+// vaultSession is safe for concurrent use.
+type vaultSession struct {
+	openStore func(context.Context) (logbook.Store, error)
+	kdf       logbook.KDFParams
+
+	mu      sync.Mutex
+	store   logbook.Store
+	vault   *logbook.Vault
+	phase   vaultPhase
+	err     error // why the store is unavailable
+	idle    time.Duration
+	subs    map[int]func()
+	nextSub int
+	rev     int // bumped at every change of phase or content
+}
+
+// theVault is the app's one vault session. The store opener and the key
+// derivation are the platform's (vault_store_*.go).
+var theVault = newVaultSession(openBrowserStore, logbook.DefaultKDF)
+
+func newVaultSession(open func(context.Context) (logbook.Store, error), kdf logbook.KDFParams) *vaultSession {
+	return &vaultSession{openStore: open, kdf: kdf, idle: logbook.DefaultIdleLock, subs: map[int]func(){}}
+}
+
+// Subscribe registers fn, called (from any goroutine) after every change
+// of phase or content. It returns the function that cancels it.
+func (s *vaultSession) Subscribe(fn func()) (cancel func()) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	id := s.nextSub
+	s.nextSub++
+	s.subs[id] = fn
+	return func() {
+		s.mu.Lock()
+		defer s.mu.Unlock()
+		delete(s.subs, id)
+	}
+}
+
+// changed bumps the revision and calls the subscribers, outside the lock.
+func (s *vaultSession) changed() {
+	s.mu.Lock()
+	s.rev++
+	fns := make([]func(), 0, len(s.subs))
+	for _, fn := range s.subs {
+		fns = append(fns, fn)
+	}
+	s.mu.Unlock()
+	for _, fn := range fns {
+		fn()
+	}
+}
+
+// Phase returns the session's phase and, when unavailable, why.
+func (s *vaultSession) Phase() (vaultPhase, error) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.phase == phaseUnlocked && s.vault.Locked() {
+		s.phase = phaseLocked
+	}
+	return s.phase, s.err
+}
+
+// Rev returns a number that changes with every change of phase or content.
+func (s *vaultSession) Rev() int {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.rev
+}
+
+// Load opens the store (once) and finds out whether it holds a vault. It is
+// cheap after the first call.
+func (s *vaultSession) Load(ctx context.Context) error {
+	s.mu.Lock()
+	if s.phase != phaseUnknown && s.phase != phaseUnavailable {
+		s.mu.Unlock()
+		return nil
+	}
+	s.mu.Unlock()
+	store, err := s.openStore(ctx)
+	if err != nil {
+		s.mu.Lock()
+		s.phase, s.err = phaseUnavailable, err
+		s.mu.Unlock()
+		s.changed()
+		return err
+	}
+	v, err := logbook.Open(ctx, store)
+	s.mu.Lock()
+	s.store, s.err = store, nil
+	switch {
+	case errors.Is(err, logbook.ErrNoVault):
+		s.phase = phaseEmpty
+		err = nil
+	case err != nil:
+		s.phase, s.err = phaseUnavailable, err
+	default:
+		s.vault, s.phase = v, phaseLocked
+	}
+	s.mu.Unlock()
+	s.changed()
+	return err
+}
+
+// adopt installs an unlocked vault and its auto-lock.
+func (s *vaultSession) adopt(v *logbook.Vault) {
+	s.mu.Lock()
+	s.vault, s.phase = v, phaseUnlocked
+	idle := s.idle
+	s.mu.Unlock()
+	v.SetAutoLock(idle, s.onLock)
+	s.changed()
+}
+
+// onLock runs after any lock of the vault (button or idle time).
+func (s *vaultSession) onLock() {
+	forgetDraftPatient(s)
+	s.mu.Lock()
+	if s.phase == phaseUnlocked {
+		s.phase = phaseLocked
+	}
+	s.mu.Unlock()
+	s.changed()
+}
+
+// Create makes a new vault with passphrase (checked by
+// logbook.CheckPassphrase) and leaves it unlocked.
+func (s *vaultSession) Create(ctx context.Context, passphrase string) error {
+	if err := s.Load(ctx); err != nil {
+		return err
+	}
+	s.mu.Lock()
+	store := s.store
+	s.mu.Unlock()
+	v, err := logbook.Create(ctx, store, passphrase, s.kdf)
+	if err != nil {
+		return err
+	}
+	s.adopt(v)
+	return nil
+}
+
+// Unlock unlocks the vault. A wrong passphrase gives logbook.ErrUnlock and
+// changes nothing, in the store or in the session.
+func (s *vaultSession) Unlock(ctx context.Context, passphrase string) error {
+	if err := s.Load(ctx); err != nil {
+		return err
+	}
+	s.mu.Lock()
+	v := s.vault
+	s.mu.Unlock()
+	if v == nil {
+		return logbook.ErrNoVault
+	}
+	if err := v.Unlock(ctx, passphrase); err != nil {
+		return err
+	}
+	s.adopt(v)
+	return nil
+}
+
+// Import writes a bundle into the empty store, after logbook.Import has
+// verified all of it, and leaves the vault unlocked.
+func (s *vaultSession) Import(ctx context.Context, bundle []byte, passphrase string) error {
+	if err := s.Load(ctx); err != nil {
+		return err
+	}
+	s.mu.Lock()
+	store := s.store
+	s.mu.Unlock()
+	v, err := logbook.Import(ctx, store, bundle, passphrase)
+	if err != nil {
+		return err
+	}
+	s.adopt(v)
+	return nil
+}
+
+// Lock drops the keys (the vault zeroes them) and everything decrypted the
+// session holds.
+func (s *vaultSession) Lock() {
+	s.mu.Lock()
+	v := s.vault
+	s.mu.Unlock()
+	if v != nil {
+		v.Lock() // calls onLock when it was unlocked
+	}
+}
+
+// Touch postpones the auto-lock: the crew is using the app.
+func (s *vaultSession) Touch() {
+	if v := s.unlocked(); v != nil {
+		v.Touch()
+	}
+}
+
+// SetIdle sets the auto-lock time (0 or less: never), for the vault now
+// unlocked and those unlocked later.
+func (s *vaultSession) SetIdle(idle time.Duration) {
+	s.mu.Lock()
+	s.idle = idle
+	v, unlocked := s.vault, s.phase == phaseUnlocked
+	s.mu.Unlock()
+	if unlocked {
+		v.SetAutoLock(idle, s.onLock)
+	}
+}
+
+// unlocked returns the vault when it is unlocked, else nil.
+func (s *vaultSession) unlocked() *logbook.Vault {
+	s.mu.Lock()
+	v := s.vault
+	s.mu.Unlock()
+	if v == nil || v.Locked() {
+		return nil
+	}
+	return v
+}
+
+// Vault returns the unlocked vault or logbook.ErrLocked.
+func (s *vaultSession) Vault() (*logbook.Vault, error) {
+	if v := s.unlocked(); v != nil {
+		return v, nil
+	}
+	return nil, logbook.ErrLocked
+}
+
+// Append saves one entry and returns only when the store has it (for
+// IndexedDB: its transaction completed). On error nothing was saved.
+func (s *vaultSession) Append(ctx context.Context, e *logbook.Entry) (logbook.IndexEntry, error) {
+	v, err := s.Vault()
+	if err != nil {
+		return logbook.IndexEntry{}, err
+	}
+	ie, err := v.Append(ctx, e)
+	if err == nil {
+		s.changed()
+	}
+	return ie, err
+}
+
+// Export returns the whole vault as one bundle.
+func (s *vaultSession) Export(ctx context.Context) ([]byte, error) {
+	v, err := s.Vault()
+	if err != nil {
+		return nil, err
+	}
+	var b bytes.Buffer
+	if err := v.Export(ctx, &b); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// ChangePassphrase re-wraps the data key under next with the session's key
+// derivation settings (never below the vault's own).
+func (s *vaultSession) ChangePassphrase(ctx context.Context, current, next string) error {
+	v, err := s.Vault()
+	if err != nil {
+		return err
+	}
+	kdf := s.kdf
+	if old := v.KDF(); old.Algorithm == kdf.Algorithm && (old.MemoryKiB > kdf.MemoryKiB || old.Time > kdf.Time) {
+		kdf = old
+	}
+	return v.ChangePassphrase(ctx, current, next, kdf)
+}
+
+// Storage asks for persistent storage and reports usage.
+func (s *vaultSession) Storage(ctx context.Context) (logbook.StorageStatus, error) {
+	if err := s.Load(ctx); err != nil {
+		return logbook.StorageStatus{}, err
+	}
+	s.mu.Lock()
+	store := s.store
+	s.mu.Unlock()
+	return logbook.Storage(ctx, store)
+}
