@@ -21,7 +21,7 @@ type OxygenAudit struct {
 	// was amended (not computable otherwise: "plan not amended").
 	FinalPlannedL     Amount          `json:"final_planned_l"`
 	FinalBriefRecord  string          `json:"final_brief_record,omitempty"`
-	ResidualPressure  Amount          `json:"residual_psi"` // the policy's safe residual
+	ResidualPressure  Amount          `json:"residual"` // the policy's safe residual, in the unit the policy gave
 	ResidualSource    string          `json:"residual_source"`
 	PlannedChanges    []PlannedChange `json:"planned_changes"`
 	Cylinders         []CylinderAudit `json:"cylinders"`
@@ -129,17 +129,13 @@ func (c *auditContext) oxygen() {
 			})
 		}
 		o.ReserveRequiredL = exact(res.OxygenNeededL.Sub(res.OxygenCalculatedL.Decimal), "L", physio.RoundUp)
-		o.ResidualPressure = exact(res.ResidualPsi.Decimal, "psi", physio.RoundUp)
-		o.ResidualSource = "Brief " + RecordName(plan.seq)
 	} else {
 		o.PlannedL = notComputable("L", "%s", why)
 		o.PlannedWithReserveL = o.PlannedL
 		o.PlannedUsableL = o.PlannedL
 		o.ReserveRequiredL = notComputable("L", "%s", why)
-		o.ResidualPressure = measured(physio.DefaultResidualPsi.Psi(), "psi", 0, physio.RoundUp)
-		o.ResidualSource = "default (common practice, 200 psi): " + why
 	}
-	residual := physio.Psi(o.ResidualPressure.Value.InexactFloat64())
+	residual := c.residual(res, why)
 	switch {
 	case c.final == nil:
 		o.FinalPlannedL = notComputable("L", "plan not amended")
@@ -353,4 +349,39 @@ func (c *auditContext) changes(res *physio.PlanResult) {
 		n++
 		o.PlannedChanges = append(o.PlannedChanges, pc)
 	}
+}
+
+// residual returns the policy's safe residual pressure. It is read from
+// the Brief's plan document as the crew gave it (psi or bar, exact), so
+// that a residual of 14 bar is not shifted by the result's rounded psi
+// figure; absent there, the engine's default (physio.DefaultReservePolicy).
+// A plan document that does not parse falls back to the result's psi
+// figure, and no Brief to the common-practice 200 psi.
+func (c *auditContext) residual(res *physio.PlanResult, why string) physio.Pressure {
+	o := &c.a.Oxygen
+	if res == nil {
+		o.ResidualPressure = measured(physio.DefaultResidualPsi.Psi(), "psi", 0, physio.RoundNearest)
+		o.ResidualSource = "default (common practice): " + why
+		return physio.DefaultResidualPsi
+	}
+	rec := RecordName(c.plan.seq)
+	doc, err := physio.ParsePlan(c.plan.brief.Plan)
+	if err != nil {
+		o.ResidualPressure = exact(res.ResidualPsi.Decimal, "psi", physio.RoundNearest)
+		o.ResidualSource = "Brief " + rec + " result"
+		return physio.Psi(res.ResidualPsi.InexactFloat64())
+	}
+	o.ResidualSource = "Brief " + rec + " policy"
+	switch p := doc.Policy; {
+	case p != nil && p.ResidualBar != nil:
+		o.ResidualPressure = measured(*p.ResidualBar, "bar", 2, physio.RoundNearest)
+		return physio.Bar(*p.ResidualBar)
+	case p != nil && p.ResidualPsi != nil:
+		o.ResidualPressure = measured(*p.ResidualPsi, "psi", 1, physio.RoundNearest)
+		return physio.Psi(*p.ResidualPsi)
+	}
+	r := physio.DefaultReservePolicy.Residual
+	o.ResidualPressure = measured(r.Psi(), "psi", 1, physio.RoundNearest)
+	o.ResidualSource = "Brief " + rec + " (engine default)"
+	return r
 }
