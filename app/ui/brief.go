@@ -47,7 +47,10 @@ func newBriefWith(store DraftStore) *brief {
 	return &brief{store: store, s: s}
 }
 
-func (b *brief) OnMount(ctx app.Context) {
+func (b *brief) OnMount(ctx app.Context) { b.load(ctx) }
+
+// load reads the settings and the stored draft, and follows Settings.
+func (b *brief) load(ctx app.Context) {
 	s := b.s
 	s.settings = LoadSettings(ctx)
 	ctx.ObserveState(SettingsKey, &s.settings).OnChange(func() {

@@ -53,7 +53,7 @@ var (
 	specDestination = fieldSpec{Label: "Destination field elevation", Kind: qAltitude, Min: -2000, Max: 18000}
 	specCruise      = fieldSpec{Label: "Cruise altitude", Kind: qAltitude, Min: -2000, Max: 51000}
 	specCabin       = fieldSpec{Label: "Cabin altitude (stated)", Kind: qAltitude, Min: -2000, Max: 25000}
-	specDiff        = fieldSpec{Label: "Maximum pressure differential", Kind: qDiff, Min: 0, Max: 10}
+	specDiff        = fieldSpec{Label: "Maximum pressure differential", Kind: qDiff, Min: 0, Max: 11}
 	specMinutes     = fieldSpec{Label: "Duration", Kind: qMinutes, Min: 1, Max: 2880}
 	specLegFiO2     = fieldSpec{Label: "FiO2 set", Kind: qFraction, Min: 0.21, Max: 1}
 	specBlendFlow   = fieldSpec{Label: "Total flow", Kind: qFlow, Min: 1, Max: 120}

@@ -88,7 +88,11 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 		s.fig("b-r-maxcabin", "FiO2 1.0 holds the ground state up to", r.Explain["max_cabin_altitude_ft"]),
 	)
 	if r.MaxCruiseAltitudeFt != nil {
-		figs = append(figs, s.fig("b-r-maxcruise", "Highest cruise for that cabin", r.Explain["max_cruise_altitude_ft"]))
+		label := "Highest cruise for that cabin"
+		if r.MaxCruiseAtCeiling {
+			label += " (no limit below the model's ceiling)"
+		}
+		figs = append(figs, s.fig("b-r-maxcruise", label, r.Explain["max_cruise_altitude_ft"]))
 	}
 	if r.SupplyExhaustedMin != nil {
 		figs = append(figs, s.fig("b-r-exhausted", "Supply reaches the residual at minute", r.Explain["supply_exhausted_minute"]))
@@ -339,10 +343,7 @@ func (s *briefState) how(id, label string, f physio.Figure, note string) app.UI 
 	if open {
 		inputs := make([]app.UI, 0, len(f.Inputs))
 		for _, in := range f.Inputs {
-			t := in.Name + " = " + fmtNum(in.Value)
-			if in.Unit != "" {
-				t += " " + in.Unit
-			}
+			t := in.Name + " = " + s.inputText(in)
 			inputs = append(inputs, app.Li().Text(t))
 		}
 		dl := []app.UI{
@@ -370,6 +371,25 @@ func (s *briefState) how(id, label string, f physio.Figure, note string) app.UI 
 			s.open[hid] = now
 		}, app.EventScope(hid)).
 		Body(body...)
+}
+
+// inputText writes a figure's input in the display units (to the nearest:
+// an input is shown, not decided on).
+func (s *briefState) inputText(in physio.FigureInput) string {
+	switch {
+	case in.Unit == "ft" && s.settings.AltitudeUnit == UnitM:
+		if d, ok := physio.Round(physio.Feet(in.Value).Metres(), 1, physio.RoundNearest); ok {
+			return d.String() + " m"
+		}
+	case in.Unit == "mmHg" && s.settings.GasUnit == UnitKPa:
+		if d, ok := physio.Round(physio.MmHg(in.Value).Kilopascals(), 2, physio.RoundNearest); ok {
+			return d.String() + " kPa"
+		}
+	}
+	if in.Unit == "" {
+		return fmtNum(in.Value)
+	}
+	return fmtNum(in.Value) + " " + in.Unit
 }
 
 func roundingText(r string) string {
