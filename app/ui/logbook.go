@@ -1,21 +1,254 @@
 package ui
 
-import "github.com/maxence-charriere/go-app/v10/pkg/app"
+import (
+	"context"
+	"time"
 
-// logbookScreen is the Logbook screen. PLACEHOLDER: the screen itself is built in a
-// later step; this file is replaced whole, keeping newLogbook as the
-// constructor the frame calls (see routes.go).
-type logbookScreen struct{ app.Compo }
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
-func newLogbook() *logbookScreen { return &logbookScreen{} }
+	"alvea/app/logbook"
+)
 
-func (s *logbookScreen) Render() app.UI {
-	return app.Section().Class("alv-screen").Aria("labelledby", "logbook-title").Body(
-		app.H1().ID("logbook-title").Text("Logbook"),
-		newCaution(""),
-		app.Div().Class("alv-card alv-placeholder").Body(
-			app.H2().Class("alv-card-title").Text("Not built yet"),
-			app.P().Text("The encrypted transport log: unlock, list and open transports."),
-		),
+// logbookScreen is the Logbook screen: create or unlock the encrypted vault
+// (or import a bundle into an empty one), the list of transports, one
+// transport's timeline with its one-tap entries, starting a transport from
+// the current Brief, and the vault's own controls (lock, storage, change of
+// passphrase, export, check).
+//
+// Rendering is split by topic: logbook_access.go (create, unlock, import),
+// logbook_list.go, logbook_record.go (timeline and entries),
+// logbook_start.go, logbook_manage.go; user sentences for errors are in
+// logbook_text.go. Everything that touches the vault runs in ctx.Async
+// through run: the store and the key derivation block.
+type logbookScreen struct {
+	app.Compo
+
+	session *vaultSession
+	unsub   func()
+
+	phase    vaultPhase
+	phaseErr error
+	busy     string // what is running, shown with a spinner; "" when idle
+	status   string // the last outcome, announced (role=status)
+	problem  string // the last refusal or failure, announced (role=alert)
+	view     string // viewList, viewRecord, viewStart, viewManage
+
+	access  accessForm
+	list    listState
+	record  recordState
+	start   startForm
+	manage  manageForm
+	storage *logbook.StorageStatus
+	units   Settings
+}
+
+// Views once unlocked.
+const (
+	viewList   = "list"
+	viewRecord = "record"
+	viewStart  = "start"
+	viewManage = "manage"
+)
+
+func newLogbook() *logbookScreen { return newLogbookWith(theVault) }
+
+// newLogbookWith returns the screen on a given session (tests use one on a
+// memory store).
+func newLogbookWith(s *vaultSession) *logbookScreen {
+	return &logbookScreen{session: s, view: viewList, units: DefaultSettings()}
+}
+
+func (l *logbookScreen) OnMount(ctx app.Context) {
+	l.units = LoadSettings(ctx)
+	ctx.ObserveState(SettingsKey, &l.units)
+	l.unsub = l.session.Subscribe(func() {
+		ctx.Dispatch(func(ctx app.Context) { l.sync(ctx) })
+	})
+	l.phase, l.phaseErr = l.session.Phase()
+	if l.phase == phaseUnlocked {
+		l.refresh(ctx)
+		return
+	}
+	l.run(ctx, "Opening the logbook…", func(c context.Context) error {
+		return l.session.Load(c)
+	}, func(ctx app.Context, err error) {
+		l.sync(ctx)
+	})
+}
+
+func (l *logbookScreen) OnDismount() {
+	if l.unsub != nil {
+		l.unsub()
+		l.unsub = nil
+	}
+}
+
+// sync follows the session's phase. A lock (button or idle time) drops
+// everything decrypted the screen holds.
+func (l *logbookScreen) sync(ctx app.Context) {
+	was := l.phase
+	l.phase, l.phaseErr = l.session.Phase()
+	if l.phase != phaseUnlocked {
+		l.forget()
+		if was == phaseUnlocked {
+			l.status = "The logbook is locked."
+		}
+		return
+	}
+	if was != phaseUnlocked {
+		l.refresh(ctx)
+	}
+}
+
+// forget drops decrypted content and the passphrase fields.
+func (l *logbookScreen) forget() {
+	l.list = listState{}
+	l.record = recordState{}
+	l.start = startForm{}
+	l.manage = manageForm{}
+	l.access.clearSecrets()
+	l.view = viewList
+}
+
+// run does work in a goroutine (the vault blocks on storage and key
+// derivation) with the screen marked busy, then done on the UI goroutine.
+func (l *logbookScreen) run(ctx app.Context, busy string, work func(context.Context) error, done func(ctx app.Context, err error)) {
+	if l.busy != "" {
+		return
+	}
+	l.busy, l.problem = busy, ""
+	ctx.Async(func() {
+		// Let the busy state paint before a key derivation holds the CPU
+		// (the browser runs Go on one thread).
+		time.Sleep(40 * time.Millisecond)
+		err := work(context.Background())
+		ctx.Dispatch(func(ctx app.Context) {
+			l.busy = ""
+			done(ctx, err)
+		})
+	})
+}
+
+// refresh reloads the list (and the open transport) from the vault, and
+// the storage status.
+func (l *logbookScreen) refresh(ctx app.Context) {
+	var listing *logbook.Listing
+	var tr *logbook.Transport
+	var st logbook.StorageStatus
+	var stErr error
+	id := l.record.id
+	l.run(ctx, "Reading the logbook…", func(c context.Context) error {
+		v, err := l.session.Vault()
+		if err != nil {
+			return err
+		}
+		if listing, err = v.List(c); err != nil {
+			return err
+		}
+		if id != "" {
+			if tr, err = v.Transport(c, id); err != nil {
+				return err
+			}
+		}
+		st, stErr = l.session.Storage(c)
+		return nil
+	}, func(ctx app.Context, err error) {
+		if err != nil {
+			l.problem = vaultMessage(err)
+			return
+		}
+		l.list.listing = listing
+		if tr != nil {
+			l.record.transport = tr
+		}
+		if stErr == nil {
+			l.storage = &st
+		}
+	})
+}
+
+// touch postpones the auto-lock on any input on the screen.
+func (l *logbookScreen) touch(ctx app.Context, e app.Event) {
+	ctx.PreventUpdate()
+	l.session.Touch()
+}
+
+func (l *logbookScreen) Render() app.UI {
+	return app.Section().Class("alv-screen lb-screen").Aria("labelledby", "logbook-title").
+		OnKeyDown(l.touch).On("pointerdown", l.touch).
+		Body(
+			app.Div().Class("lb-head").Body(
+				app.H1().ID("logbook-title").Text("Logbook"),
+				app.If(l.phase == phaseUnlocked, func() app.UI {
+					return app.Button().ID("lb-lock").Type("button").Class("alv-button lb-lock").
+						Text("Lock").OnClick(l.lockNow)
+				}),
+			),
+			newCaution(""),
+			app.P().ID("lb-status").Class("lb-status").Attr("role", "status").Body(
+				app.If(l.busy != "", func() app.UI { return app.Span().Class("lb-busy").Text(l.busy) }).
+					Else(func() app.UI { return app.Text(l.status) }),
+			),
+			app.If(l.problem != "", func() app.UI {
+				return app.P().ID("lb-problem").Class("alv-error lb-problem").Attr("role", "alert").Text(l.problem)
+			}),
+			l.renderPhase(),
+		)
+}
+
+func (l *logbookScreen) renderPhase() app.UI {
+	switch l.phase {
+	case phaseUnknown:
+		return app.P().Class("alv-lead").Text("Opening the logbook on this device…")
+	case phaseUnavailable:
+		return app.Div().Class("alv-card").Body(
+			app.H2().Class("alv-card-title").Text("The logbook cannot be kept on this device"),
+			app.P().Text(unavailableMessage(l.phaseErr)),
+		)
+	case phaseEmpty:
+		return l.renderEmpty()
+	case phaseLocked:
+		return l.renderLocked()
+	}
+	switch l.view {
+	case viewRecord:
+		return l.renderRecord()
+	case viewStart:
+		return l.renderStart()
+	case viewManage:
+		return l.renderManage()
+	}
+	return l.renderList()
+}
+
+func (l *logbookScreen) lockNow(ctx app.Context, e app.Event) {
+	l.session.Lock()
+	l.sync(ctx)
+}
+
+func (l *logbookScreen) show(ctx app.Context, view string) {
+	l.view, l.problem, l.status = view, "", ""
+}
+
+// nav renders the row of views once unlocked.
+func (l *logbookScreen) nav() app.UI {
+	item := func(view, label string) app.UI {
+		b := app.Button().ID("lb-nav-"+view).Type("button").Class("alv-seg-btn").
+			Aria("pressed", ariaBool(l.view == view)).Text(label).
+			OnClick(func(ctx app.Context, e app.Event) {
+				l.show(ctx, view)
+				if view == viewList {
+					l.refresh(ctx)
+				}
+				if view == viewStart {
+					l.prepareStart(ctx)
+				}
+			})
+		return b
+	}
+	return app.Nav().Class("lb-nav alv-seg").Aria("label", "Logbook").Body(
+		item(viewList, "Transports"),
+		item(viewStart, "Start transport"),
+		item(viewManage, "Vault"),
 	)
 }

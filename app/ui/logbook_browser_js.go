@@ -1,0 +1,87 @@
+package ui
+
+import (
+	"context"
+	"errors"
+	"syscall/js"
+	"time"
+)
+
+// Browser file handling for the Logbook: reading a chosen bundle file and
+// offering the export as a download through a Blob URL (the bytes never
+// appear in a URL; the URL names an object in this page only, and is
+// revoked after the download starts).
+
+// readFile reads the file chosen in the file input with the element id.
+// Call it from a goroutine: it waits for the browser.
+var readFile = func(ctx context.Context, id string) ([]byte, error) {
+	el := js.Global().Get("document").Call("getElementById", id)
+	if !el.Truthy() || el.Get("files").Get("length").Int() == 0 {
+		return nil, errNoFile
+	}
+	file := el.Get("files").Index(0)
+	type result struct {
+		v   js.Value
+		err error
+	}
+	done := make(chan result, 1)
+	ok := js.FuncOf(func(this js.Value, args []js.Value) any {
+		select {
+		case done <- result{v: args[0]}:
+		default:
+		}
+		return nil
+	})
+	fail := js.FuncOf(func(this js.Value, args []js.Value) any {
+		select {
+		case done <- result{err: errors.New("ui: the file could not be read")}:
+		default:
+		}
+		return nil
+	})
+	file.Call("arrayBuffer").Call("then", ok, fail)
+	var r result
+	select {
+	case r = <-done:
+	case <-ctx.Done():
+		go func() { <-done; ok.Release(); fail.Release() }()
+		return nil, ctx.Err()
+	}
+	ok.Release()
+	fail.Release()
+	if r.err != nil {
+		return nil, r.err
+	}
+	u8 := js.Global().Get("Uint8Array").New(r.v)
+	b := make([]byte, u8.Get("length").Int())
+	js.CopyBytesToGo(b, u8)
+	return b, nil
+}
+
+// fileName returns the name of the file chosen in the input with the id.
+func fileName(id string) string {
+	el := js.Global().Get("document").Call("getElementById", id)
+	if !el.Truthy() || el.Get("files").Get("length").Int() == 0 {
+		return ""
+	}
+	return el.Get("files").Index(0).Get("name").String()
+}
+
+// download offers data as a file named name.
+var download = func(name string, data []byte) error {
+	u8 := js.Global().Get("Uint8Array").New(len(data))
+	js.CopyBytesToJS(u8, data)
+	blob := js.Global().Get("Blob").New(js.ValueOf([]any{u8}), map[string]any{"type": "application/octet-stream"})
+	url := js.Global().Get("URL").Call("createObjectURL", blob)
+	doc := js.Global().Get("document")
+	a := doc.Call("createElement", "a")
+	a.Set("href", url)
+	a.Set("download", name)
+	a.Set("hidden", true)
+	doc.Get("body").Call("append", a)
+	a.Call("click")
+	a.Call("remove")
+	// Revoke once the browser has taken the bytes.
+	time.AfterFunc(time.Minute, func() { js.Global().Get("URL").Call("revokeObjectURL", url) })
+	return nil
+}

@@ -1,0 +1,224 @@
+package ui
+
+import (
+	"encoding/json"
+	"fmt"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"alvea/app/logbook"
+	"alvea/physio"
+)
+
+// startForm opens a transport from the current Brief: the plan document and
+// physio's result are snapshotted with the engine version; the cylinders on
+// board come from the Brief's supply lines.
+type startForm struct {
+	vehicle, crew         string
+	origin, originElev    string
+	dest, destElev        string
+	age, sex, weight      string
+	identifying           string
+	snapshot              *logbook.Brief
+	cylinders             []logbook.CylinderSpec
+	briefNote             string // what the Brief gave, or why no snapshot
+	originMsg, destMsg    string
+	weightMsg, vehicleMsg string
+}
+
+// prepareStart reads the current Brief draft and computes its plan.
+func (l *logbookScreen) prepareStart(ctx app.Context) {
+	f := startForm{}
+	d, found, err := draftStoreFor(l.session).Load(ctx)
+	if err != nil || !found {
+		f.briefNote = "No Brief has been filled in: the transport starts without a plan snapshot."
+		l.start = f
+		return
+	}
+	m := buildBrief(d, l.units)
+	if m.doc != nil {
+		au := l.units.AltitudeUnit
+		if e := m.doc.Route.OriginElevationFt; e != nil {
+			f.originElev = altitudeText(physio.Feet(*e), au)
+		}
+		if e := m.doc.Route.DestinationElevationFt; e != nil {
+			f.destElev = altitudeText(physio.Feet(*e), au)
+		}
+		f.cylinders = cylindersFromPlan(m.doc)
+	}
+	if !m.ok() {
+		f.briefNote = "The Brief is not complete (" + strconv.Itoa(len(m.order)+len(m.other)) + " item(s) to fix): the transport starts without a plan snapshot. Fix the Brief first to keep one."
+		l.start = f
+		return
+	}
+	plan, err1 := json.Marshal(m.doc)
+	result, err2 := json.Marshal(m.result)
+	if err1 != nil || err2 != nil {
+		f.briefNote = "The Brief could not be recorded: the transport starts without a plan snapshot."
+		l.start = f
+		return
+	}
+	f.snapshot = &logbook.Brief{Plan: plan, Result: result, EngineVersion: physio.EngineVersion}
+	f.briefNote = "The current Brief (plan and result, engine " + physio.EngineVersion + ") is kept with the transport."
+	l.start = f
+}
+
+// cylindersFromPlan lists the Brief's cylinders, one per cylinder on board,
+// labelled by kind and number (E1, E2, …).
+func cylindersFromPlan(doc *physio.PlanDocument) []logbook.CylinderSpec {
+	var out []logbook.CylinderSpec
+	seen := map[string]int{}
+	for _, s := range doc.Supply {
+		n := 1
+		if s.Count != nil && *s.Count > 0 {
+			n = *s.Count
+		}
+		for i := 0; i < n && len(out) < 32; i++ {
+			c := logbook.CylinderSpec{}
+			base := s.Name
+			switch {
+			case s.Size != "":
+				c.Size = string(s.Size)
+				if base == "" {
+					base = string(s.Size)
+				}
+			case s.WaterCapacityL != nil:
+				c.WaterCapacity = physio.Litres(*s.WaterCapacityL)
+				if base == "" {
+					base = strconv.FormatFloat(*s.WaterCapacityL, 'f', -1, 64) + "L"
+				}
+			case s.LabelContentsL != nil && s.LabelPressureBar != nil:
+				c.NominalContents = physio.Litres(*s.LabelContentsL)
+				c.NominalPressure = physio.Bar(*s.LabelPressureBar)
+				if base == "" {
+					base = "cyl"
+				}
+			default:
+				continue
+			}
+			seen[base]++
+			c.Label = base + strconv.Itoa(seen[base])
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+var ageBands = []choice{
+	{"", "Not given"}, {string(logbook.AgeNeonate), "Neonate (< 28 days)"}, {string(logbook.AgeInfant), "Infant (< 1 year)"},
+	{string(logbook.AgeChild), "Child (1–11)"}, {string(logbook.AgeAdolescent), "Adolescent (12–17)"},
+	{string(logbook.AgeAdult), "Adult (18–64)"}, {string(logbook.AgeOlderAdult), "Older adult (65+)"},
+}
+
+var sexes = []choice{{"", "Not given"}, {string(logbook.SexFemale), "Female"}, {string(logbook.SexMale), "Male"}, {string(logbook.SexOther), "Other"}}
+
+func selectField(id, label, current string, options []choice, onPick func(ctx app.Context, v string)) app.UI {
+	opts := make([]app.UI, 0, len(options))
+	for _, o := range options {
+		opts = append(opts, app.Option().Value(o.Value).Text(o.Label).Selected(o.Value == current))
+	}
+	return app.Div().Class("alv-field").Body(
+		app.Label().For(id).Text(label),
+		app.Select().ID(id).Class("alv-input").Body(opts...).
+			OnChange(func(ctx app.Context, e app.Event) { onPick(ctx, ctx.JSSrc().Get("value").String()) }),
+	)
+}
+
+func (l *logbookScreen) renderStart() app.UI {
+	f := &l.start
+	au := l.units.AltitudeUnit
+	return app.Div().Class("lb-body").Body(
+		l.nav(),
+		app.Form().ID("lb-start").Class("alv-card").OnSubmit(l.startTransport).Body(
+			app.H2().Class("alv-card-title").Text("Start transport"),
+			app.P().ID("lb-start-brief").Class("alv-note").Text(f.briefNote),
+			app.If(len(f.cylinders) > 0, func() app.UI {
+				return app.P().Class("alv-note").Text("Cylinders on board: " + cylindersText(f.cylinders))
+			}),
+			app.Div().Class("lb-start-grid").Body(
+				textField("lb-vehicle", "Vehicle or aircraft", f.vehicle, f.vehicleMsg, func(ctx app.Context, t string) { f.vehicle, f.vehicleMsg = t, "" }),
+				textField("lb-crew", "Crew initials (space between)", f.crew, "", func(ctx app.Context, t string) { f.crew = t }),
+				textField("lb-origin", "Origin", f.origin, "", func(ctx app.Context, t string) { f.origin = t }),
+				numberField("lb-origin-elev", "Origin elevation", au, f.originElev, f.originMsg, func(ctx app.Context, t string) { f.originElev, f.originMsg = t, "" }),
+				textField("lb-dest", "Destination", f.dest, "", func(ctx app.Context, t string) { f.dest = t }),
+				numberField("lb-dest-elev", "Destination elevation", au, f.destElev, f.destMsg, func(ctx app.Context, t string) { f.destElev, f.destMsg = t, "" }),
+			),
+			app.FieldSet().Class("alv-fieldset").Body(
+				app.Legend().Text("Patient (kept minimal)"),
+				app.Div().Class("lb-start-grid").Body(
+					selectField("lb-age", "Age band", f.age, ageBands, func(ctx app.Context, v string) { f.age = v }),
+					selectField("lb-sex", "Sex", f.sex, sexes, func(ctx app.Context, v string) { f.sex = v }),
+					numberField("lb-weight", "Weight", "kg", f.weight, f.weightMsg, func(ctx app.Context, t string) { f.weight, f.weightMsg = t, "" }),
+				),
+				app.Div().Class("alv-field").Body(
+					app.Label().For("lb-ident").Text("Identifying text (optional)"),
+					app.Input().ID("lb-ident").Class("alv-input alv-input-text").Type("text").Attr("autocomplete", "off").
+						Aria("describedby", "lb-ident-warn").Value(f.identifying).
+						OnInput(func(ctx app.Context, e app.Event) { f.identifying = ctx.JSSrc().Get("value").String() }),
+					app.P().ID("lb-ident-warn").Class("lb-ident-warn").Text("Stored encrypted, but it identifies the patient: anyone with the passphrase, and any auditor you send a bundle to, reads it. Leave it empty unless your service requires it."),
+				),
+			),
+			app.Button().Type("submit").ID("lb-start-go").Class("alv-button alv-primary").Text("Start transport").Disabled(l.busy != ""),
+		),
+	)
+}
+
+// readPlace reads a place's elevation in the display unit ("" = not given).
+func readPlace(name, elev, unit string) (logbook.Place, string) {
+	p := logbook.Place{Name: strings.TrimSpace(name)}
+	if strings.TrimSpace(elev) == "" {
+		return p, ""
+	}
+	a, err := physio.ParseAltitude(withUnit(elev, unit))
+	if err != nil {
+		return p, err.Error()
+	}
+	p.Elevation, p.ElevationKnown = a, true
+	return p, ""
+}
+
+func (l *logbookScreen) startTransport(ctx app.Context, e app.Event) {
+	e.PreventDefault()
+	f := &l.start
+	au := l.units.AltitudeUnit
+	origin, om := readPlace(f.origin, f.originElev, au)
+	dest, dm := readPlace(f.dest, f.destElev, au)
+	f.originMsg, f.destMsg = om, dm
+	var weight float64
+	if t := strings.TrimSpace(f.weight); t != "" {
+		w, err := strconv.ParseFloat(t, 64)
+		if err != nil {
+			f.weightMsg = fmt.Sprintf("Weight: %q is not a number of kilograms.", t)
+		}
+		weight = w
+	}
+	if strings.TrimSpace(f.vehicle) == "" {
+		f.vehicleMsg = "Name the vehicle or aircraft type."
+	}
+	if om != "" || dm != "" || f.weightMsg != "" || f.vehicleMsg != "" {
+		return
+	}
+	now := time.Now()
+	id := logbook.NewTransportID(now)
+	entry := &logbook.Entry{Transport: id, Kind: logbook.KindOpen, At: now, Open: &logbook.Opening{
+		Vehicle:     strings.TrimSpace(f.vehicle),
+		Crew:        strings.Fields(strings.ToUpper(f.crew)),
+		Origin:      origin,
+		Destination: dest,
+		Patient: logbook.Patient{AgeBand: logbook.AgeBand(f.age), Sex: logbook.Sex(f.sex), WeightKg: weight,
+			Identifying: strings.TrimSpace(f.identifying)},
+		Brief:     f.snapshot,
+		Cylinders: f.cylinders,
+	}}
+	l.record = recordState{id: id}
+	l.save(ctx, "start of transport", func() (*logbook.Entry, error) { return entry, nil }, func() {
+		l.start = startForm{}
+		l.view = viewRecord
+		if t := l.record.transport; t != nil && len(t.Cylinders) > 0 {
+			l.record.gaugeCyl = t.Cylinders[0].Label
+		}
+	})
+}

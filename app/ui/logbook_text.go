@@ -1,0 +1,175 @@
+package ui
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+	"time"
+
+	"alvea/app/logbook"
+	"alvea/app/logbook/idb"
+	"alvea/physio"
+)
+
+// User sentences for the Logbook screen. The vault's errors never carry
+// patient text in these sentences (field values of free text are not
+// repeated), and nothing here is written to the console.
+
+// vaultMessage turns a vault error into what the crew reads.
+func vaultMessage(err error) string {
+	var pe *logbook.PassphraseError
+	var fe *logbook.FieldError
+	var de *logbook.DamageError
+	switch {
+	case err == nil:
+		return ""
+	case errors.Is(err, logbook.ErrUnlock):
+		return "Wrong passphrase, or the vault is damaged. Nothing was changed."
+	case errors.As(err, &pe):
+		return passphraseMessage(pe)
+	case errors.Is(err, logbook.ErrQuota):
+		return "The device's storage is full: this entry was NOT saved and is still on screen. Free some space on the device, then save again."
+	case errors.Is(err, logbook.ErrLocked):
+		return "The logbook is locked. Unlock it, then save again; the entry is still on screen."
+	case errors.As(err, &fe):
+		return fieldMessage(fe)
+	case errors.Is(err, logbook.ErrBundle):
+		return "This file is not a logbook bundle this version can read. Nothing was written."
+	case errors.As(err, &de):
+		first := ""
+		if len(de.Problems) > 0 {
+			first = " First: " + de.Problems[0].String() + "."
+		}
+		return fmt.Sprintf("The bundle failed its check (%d problem(s)): it was changed or damaged. Nothing was written.%s", len(de.Problems), first)
+	case errors.Is(err, logbook.ErrVaultExists):
+		return "A vault already exists on this device. A bundle is imported into an empty logbook only."
+	case errors.Is(err, logbook.ErrNoVault):
+		return "There is no vault on this device yet."
+	}
+	return "The logbook could not do this: " + err.Error() + ". If this was a new entry, it was NOT saved and is still on screen."
+}
+
+// passphraseMessage explains why a new passphrase was refused.
+func passphraseMessage(pe *logbook.PassphraseError) string {
+	switch {
+	case pe.Min > 0:
+		return fmt.Sprintf("The passphrase is too short: use at least %d characters (a few unrelated words work well).", pe.Min)
+	case strings.Contains(pe.Reason, "common"):
+		return "This passphrase is among the commonest passwords. Choose another: a few unrelated words work well."
+	case strings.Contains(pe.Reason, "repeat"):
+		return "The passphrase repeats one character or one short word. Choose another."
+	case strings.Contains(pe.Reason, "sequence") || strings.Contains(pe.Reason, "run"):
+		return "The passphrase is a keyboard or alphabet run. Choose another."
+	case strings.Contains(pe.Reason, "digit") || strings.Contains(pe.Reason, "punctuation"):
+		return "The passphrase has only digits or punctuation. Add words."
+	}
+	return "This passphrase is refused (" + pe.Reason + "). Choose another."
+}
+
+// fieldLabels names the vault's entry fields as the screen labels them.
+var fieldLabels = map[string]string{
+	"open.vehicle":                 "Vehicle or aircraft",
+	"open.crew":                    "Crew initials",
+	"open.origin.name":             "Origin",
+	"open.origin.elevation_m":      "Origin elevation",
+	"open.destination.name":        "Destination",
+	"open.destination.elevation_m": "Destination elevation",
+	"open.patient.weight_kg":       "Weight",
+	"open.patient.identifying":     "Identifying text",
+	"gauge.cylinder":               "Cylinder",
+	"gauge.pressure_pa":            "Gauge reading",
+	"observe":                      "Observations",
+	"observe.spo2":                 "SpO2",
+	"observe.fio2":                 "FiO2",
+	"observe.flow_lpm":             "O2 flow",
+	"observe.resp_rate":            "Respiratory rate",
+	"observe.heart_rate":           "Heart rate",
+	"observe.etco2_pa":             "EtCO2",
+	"observe.device":               "Device",
+	"note.text":                    "Note",
+	"event.text":                   "Event description",
+	"close.outcome":                "Outcome",
+	"reason":                       "Reason for the correction",
+}
+
+func fieldMessage(fe *logbook.FieldError) string {
+	label := fieldLabels[fe.Field]
+	if label == "" {
+		if i := strings.IndexByte(fe.Field, '['); i > 0 {
+			label = fieldLabels[fe.Field[:i]]
+		}
+	}
+	if label == "" {
+		label = fe.Field
+	}
+	return fmt.Sprintf("%s: not saved. Allowed: %s.", label, fe.Allowed)
+}
+
+func unavailableMessage(err error) string {
+	if errors.Is(err, idb.ErrUnavailable) {
+		return "This browser offers no IndexedDB storage here (a private window, or storage turned off). Use a normal window to keep a logbook."
+	}
+	if err == nil {
+		return "Storage could not be opened."
+	}
+	return "Storage could not be opened: " + err.Error() + "."
+}
+
+// clock formats a time for the timeline: local time with its zone.
+func clock(t time.Time) string { return t.Local().Format("15:04:05") }
+
+// dayAndClock formats a time for the list.
+func dayAndClock(t time.Time) string {
+	if t.IsZero() {
+		return "—"
+	}
+	return t.Local().Format("2006-01-02 15:04")
+}
+
+// bytesText gives a byte count in MB with one decimal (MB = 10^6 bytes,
+// as browsers report storage).
+func bytesText(n int64) string {
+	return fmt.Sprintf("%.1f MB", float64(n)/1e6)
+}
+
+// withUnit appends unit to a bare number, so "1800" typed under a psi
+// display is read as "1800 psi"; a text with its own unit keeps it.
+func withUnit(text, unit string) string {
+	t := strings.TrimSpace(text)
+	if t == "" {
+		return t
+	}
+	for _, r := range t {
+		if r == '%' || r >= 'A' && r <= 'Z' || r >= 'a' && r <= 'z' || r == '°' {
+			return t
+		}
+	}
+	return t + " " + unit
+}
+
+// pressureText formats a pressure in the display unit.
+func pressureText(p physio.Pressure, unit string) string {
+	if unit == UnitBar {
+		return fmt.Sprintf("%.1f bar", p.Bar())
+	}
+	return fmt.Sprintf("%.0f psi", p.Psi())
+}
+
+// gasText formats a gas partial pressure in the display unit.
+func gasText(p physio.Pressure, unit string) string {
+	if unit == UnitKPa {
+		return fmt.Sprintf("%.1f kPa", p.Kilopascals())
+	}
+	return fmt.Sprintf("%.0f mmHg", p.MmHg())
+}
+
+// altitudeText formats an altitude in the display unit.
+func altitudeText(a physio.Altitude, unit string) string {
+	if unit == UnitM {
+		return fmt.Sprintf("%.0f m", a.Metres())
+	}
+	return fmt.Sprintf("%.0f ft", a.Feet())
+}
+
+// errNoFile: no file was chosen in a file input.
+var errNoFile = errors.New("ui: no file chosen")
