@@ -114,12 +114,12 @@ func TestLinearScale(t *testing.T) {
 
 func TestPlotSVG(t *testing.T) {
 	p := plotSpec{
-		ID:    "test-plot",
-		Title: "Oxygen <remaining>",
-		Desc:  "A & B",
-		X:     plotAxis{Label: "Altitude", Unit: "ft", Min: 0, Max: 8000},
-		Y:     plotAxis{Label: "PAO2", Unit: "mmHg", Min: 40, Max: 100},
-		Lines: []plotLine{{Name: "PAO2", Points: []plotPoint{{0, 99.7}, {4000, 80}, {math.NaN(), 70}, {8000, 58.7}, {9000, math.Inf(1)}}, Markers: true}},
+		ID:     "test-plot",
+		Title:  "Oxygen <remaining>",
+		Desc:   "A & B",
+		X:      plotAxis{Label: "Altitude", Unit: "ft", Min: 0, Max: 8000},
+		Y:      plotAxis{Label: "PAO2", Unit: "mmHg", Min: 40, Max: 100},
+		Lines:  []plotLine{{Name: "PAO2", Points: []plotPoint{{0, 99.7}, {4000, 80}, {math.NaN(), 70}, {8000, 58.7}, {9000, math.Inf(1)}}, Markers: true}},
 		VMarks: []plotVMark{{X: 8000, Label: "Cabin"}, {X: 50000, Label: "Off the axis"}},
 		HMarks: []plotHMark{{Y: 60, Label: "Limit"}},
 		Bands:  []plotBand{{X0: 1000, X1: 3000, Label: "Leg 1"}},
