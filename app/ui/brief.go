@@ -20,6 +20,8 @@ type brief struct {
 
 	store DraftStore
 	s     *briefState
+	ctx   app.Context // from OnMount, to save the draft when leaving
+	leave app.Func    // saves the draft when the page is hidden or closed
 }
 
 // briefState is shared by the Brief and its cards.
@@ -32,6 +34,7 @@ type briefState struct {
 	rev     int // the plan changed: the result panel redraws
 	formRev int // the whole form must redraw (draft loaded, units changed)
 	saveGen int
+	pending bool            // an edit not yet saved
 	open    map[string]bool // "How" disclosures the crew opened
 }
 
@@ -47,7 +50,31 @@ func newBriefWith(store DraftStore) *brief {
 	return &brief{store: store, s: s}
 }
 
-func (b *brief) OnMount(ctx app.Context) { b.load(ctx) }
+func (b *brief) OnMount(ctx app.Context) {
+	b.load(ctx)
+	// A reload or a closed tab within the save delay must not lose the
+	// last edit: save when the page is hidden.
+	b.ctx = ctx
+	b.leave = app.FuncOf(func(this app.Value, args []app.Value) any {
+		b.s.flush(b.ctx)
+		return nil
+	})
+	app.Window().Call("addEventListener", "pagehide", b.leave)
+	app.Window().Call("addEventListener", "visibilitychange", b.leave)
+}
+
+// OnDismount saves an edit still waiting (the crew switched screens within
+// the save delay).
+func (b *brief) OnDismount() {
+	if b.leave == nil { // never mounted in a browser
+		return
+	}
+	b.s.flush(b.ctx)
+	app.Window().Call("removeEventListener", "pagehide", b.leave)
+	app.Window().Call("removeEventListener", "visibilitychange", b.leave)
+	b.leave.Release()
+	b.leave = nil
+}
 
 // load reads the settings and the stored draft, and follows Settings.
 func (b *brief) load(ctx app.Context) {
@@ -76,17 +103,26 @@ func (s *briefState) recompute() {
 func (s *briefState) changed(ctx app.Context) {
 	s.recompute()
 	s.saveGen++
+	s.pending = true
 	gen := s.saveGen
 	ctx.After(saveDelay, func(ctx app.Context) {
 		// Saving changes nothing on screen: no redraw for it.
 		ctx.PreventUpdate()
-		if gen != s.saveGen {
-			return
-		}
-		if err := s.store.Save(ctx, s.draft.clone()); err != nil {
-			app.Log(err)
+		if gen == s.saveGen {
+			s.flush(ctx)
 		}
 	})
+}
+
+// flush saves the draft if an edit is waiting.
+func (s *briefState) flush(ctx app.Context) {
+	if !s.pending || s.store == nil {
+		return
+	}
+	s.pending = false
+	if err := s.store.Save(ctx, s.draft.clone()); err != nil {
+		app.Log(err)
+	}
 }
 
 // restructured is changed for edits that add or remove form parts.
