@@ -6,6 +6,7 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"flag"
 	"fmt"
 	"io/fs"
 	"net"
@@ -40,6 +41,10 @@ func TestMain(m *testing.M) {
 	repoRoot = root
 	// The server prerenders routed pages only.
 	ui.Register()
+	flag.Parse()
+	if f := flag.Lookup("test.list"); f != nil && f.Value.String() != "" {
+		os.Exit(m.Run()) // listing tests (make fuzz) needs no build
+	}
 	// Rebuild app.wasm with the flags make uses (incremental when nothing
 	// changed), so a test never runs against a stale build.
 	cmd := exec.Command("go", "build", "-trimpath", "-ldflags=-s -w", "-o", filepath.Join(root, "web", "app.wasm"), "./app")
