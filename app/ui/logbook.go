@@ -25,6 +25,11 @@ type logbookScreen struct {
 
 	session *vaultSession
 	unsub   func()
+	// mctx is the component's own context from OnMount. Work that outlives
+	// the element whose event started it (a form that disappears once the
+	// vault unlocks) reports back through it: a Dispatch on a removed
+	// element's context is dropped.
+	mctx app.Context
 
 	phase    vaultPhase
 	phaseErr error
@@ -32,6 +37,7 @@ type logbookScreen struct {
 	status   string // the last outcome, announced (role=status)
 	problem  string // the last refusal or failure, announced (role=alert)
 	view     string // viewList, viewRecord, viewStart, viewManage
+	stale    bool   // the list must be read again once the screen is idle
 
 	access  accessForm
 	list    listState
@@ -59,6 +65,7 @@ func newLogbookWith(s *vaultSession) *logbookScreen {
 }
 
 func (l *logbookScreen) OnMount(ctx app.Context) {
+	l.mctx = ctx
 	l.units = LoadSettings(ctx)
 	ctx.ObserveState(SettingsKey, &l.units)
 	l.unsub = l.session.Subscribe(func() {
@@ -96,7 +103,10 @@ func (l *logbookScreen) sync(ctx app.Context) {
 		return
 	}
 	if was != phaseUnlocked {
-		l.refresh(ctx)
+		l.stale = true
+		if l.busy == "" {
+			l.refresh(ctx)
+		}
 	}
 }
 
@@ -117,6 +127,9 @@ func (l *logbookScreen) run(ctx app.Context, busy string, work func(context.Cont
 		return
 	}
 	l.busy, l.problem = busy, ""
+	if l.Mounted() {
+		ctx = l.mctx
+	}
 	ctx.Async(func() {
 		// Let the busy state paint before a key derivation holds the CPU
 		// (the browser runs Go on one thread).
@@ -125,18 +138,20 @@ func (l *logbookScreen) run(ctx app.Context, busy string, work func(context.Cont
 		ctx.Dispatch(func(ctx app.Context) {
 			l.busy = ""
 			done(ctx, err)
+			if l.stale && l.busy == "" && l.phase == phaseUnlocked {
+				l.refresh(ctx)
+			}
 		})
 	})
 }
 
-// refresh reloads the list (and the open transport) from the vault, and
+// refresh reloads the list (and the open transport) from the vault, then
 // the storage status.
 func (l *logbookScreen) refresh(ctx app.Context) {
 	var listing *logbook.Listing
 	var tr *logbook.Transport
-	var st logbook.StorageStatus
-	var stErr error
 	id := l.record.id
+	l.stale = false
 	l.run(ctx, "Reading the logbook…", func(c context.Context) error {
 		v, err := l.session.Vault()
 		if err != nil {
@@ -150,7 +165,6 @@ func (l *logbookScreen) refresh(ctx app.Context) {
 				return err
 			}
 		}
-		st, stErr = l.session.Storage(c)
 		return nil
 	}, func(ctx app.Context, err error) {
 		if err != nil {
@@ -161,9 +175,25 @@ func (l *logbookScreen) refresh(ctx app.Context) {
 		if tr != nil {
 			l.record.transport = tr
 		}
-		if stErr == nil {
-			l.storage = &st
-		}
+		l.readStorage(ctx)
+	})
+}
+
+// readStorage asks for persistent storage and reads the usage, without
+// holding the screen busy (the browser may take its time to answer).
+func (l *logbookScreen) readStorage(ctx app.Context) {
+	if l.Mounted() {
+		ctx = l.mctx
+	}
+	ctx.Async(func() {
+		c, cancel := context.WithTimeout(context.Background(), 10*time.Second)
+		defer cancel()
+		st, err := l.session.Storage(c)
+		ctx.Dispatch(func(ctx app.Context) {
+			if err == nil {
+				l.storage = &st
+			}
+		})
 	})
 }
 
