@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chromedp/chromedp"
 	"github.com/shopspring/decimal"
 )
 
@@ -79,6 +80,17 @@ func TestSettingsValidationAndUnitsPersist(t *testing.T) {
 	check("before reload")
 	b.reload()
 	check("after reload")
+
+	// The saved night theme is applied before the app starts: with the wasm
+	// held back (go-app's ?wasm=false), the page is already dim.
+	b.must("open without wasm", chromedp.Navigate(srv.URL("/settings?wasm=false")))
+	if got := eval[string](b, `document.documentElement.getAttribute("data-theme") ?? ""`); got != "night" {
+		t.Errorf("before the app starts: theme = %q, want night", got)
+	}
+	if got := eval[string](b, `getComputedStyle(document.body).backgroundColor`); got != "rgb(11, 10, 9)" {
+		t.Errorf("before the app starts: background = %q, want the night background rgb(11, 10, 9)", got)
+	}
+	b.open(srv.URL("/settings"))
 
 	// Back to psi: the stored 250 psi shows again, not a round trip through bar.
 	b.tap("#set-pressure-psi")

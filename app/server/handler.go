@@ -95,7 +95,7 @@ func NewHandler(root string) (*app.Handler, error) {
 		BackgroundColor:       backgroundTint,
 		LoadingLabel:          "Loading Alvea {progress}%",
 		Styles:                styles,
-		Scripts:               []string{"/web/alvea.js defer"},
+		Scripts:               []string{"/web/theme.js", "/web/alvea.js defer"},
 		CacheableResources:    cacheable,
 		RawHeaders:            []string{`<meta http-equiv="Content-Security-Policy" content="` + contentSecurityPolicy + `">`},
 		Resources:             dirResources{Handler: http.FileServer(http.Dir(root))},
