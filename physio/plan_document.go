@@ -9,6 +9,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // PlanDocumentVersion is the only plan document version this engine reads.
@@ -158,22 +159,29 @@ func (e PlanErrors) Error() string {
 }
 
 // ParsePlan reads a plan document strictly: JSON with "version": 1, every
-// key known, every value of the right type and within its range, every
-// device with the settings it needs. All problems are returned together as
-// PlanErrors, each naming its path, the value, the allowed range and unit.
-// Nothing is guessed: absent optional values stay nil and ComputePlan
-// reports the default it uses.
+// key known and given once, every value of the right type and within its
+// range, every device with the settings it needs. All problems are returned
+// together as PlanErrors, each naming its path, the value, the allowed range
+// and unit. Nothing is guessed: absent optional values stay nil and
+// ComputePlan reports the default it uses. A leading UTF-8 byte order mark
+// is ignored (RFC 8259 §8.1 allows it); text that is not UTF-8 is refused.
 func ParsePlan(data []byte) (*PlanDocument, error) {
 	if len(data) > MaxPlanDocumentBytes {
 		return nil, PlanErrors{{Path: "document", Message: fmt.Sprintf("%d bytes is above the %d byte limit", len(data), MaxPlanDocumentBytes), Err: ErrOutOfRange}}
 	}
+	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	root, err := parseJSONTree(data)
 	if err != nil {
-		return nil, PlanErrors{{Path: "document", Message: err.Error(), Err: ErrSyntax}}
+		path := "document"
+		var pe *jsonPathError
+		if errors.As(err, &pe) && pe.path != "" {
+			path = pe.path
+		}
+		return nil, PlanErrors{{Path: path, Message: err.Error(), Err: ErrSyntax}}
 	}
-	w := &planWalker{bad: map[string]bool{}}
+	w := &planWalker{bad: map[string]bool{}, raw: map[string]string{}}
 	doc := w.document(root)
-	v := &planValidator{skip: w.bad}
+	v := &planValidator{skip: w.bad, raw: w.raw}
 	v.document(doc)
 	all := append(w.errs, v.errs...)
 	if len(all) > 0 {
@@ -224,33 +232,108 @@ type jsonNode struct {
 
 const maxJSONDepth = 32
 
+// jsonPathError is a structural problem (a duplicate key, nesting too deep)
+// found at a path of the document.
+type jsonPathError struct {
+	path string
+	msg  string
+}
+
+func (e *jsonPathError) Error() string { return e.msg }
+
 func parseJSONTree(data []byte) (*jsonNode, error) {
+	if !utf8.Valid(data) {
+		at := 0
+		for at < len(data) {
+			r, size := utf8.DecodeRune(data[at:])
+			if r == utf8.RuneError && size <= 1 {
+				break
+			}
+			at += size
+		}
+		return nil, fmt.Errorf("not UTF-8 text: invalid byte at %s", jsonPosition(data, at))
+	}
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.UseNumber()
-	n, err := readJSONValue(dec, 0)
+	n, err := readJSONValue(dec, 0, "")
 	if err != nil {
-		return nil, jsonSyntaxMessage(err, dec)
+		var pe *jsonPathError
+		if errors.As(err, &pe) {
+			return nil, err
+		}
+		return nil, jsonSyntaxMessage(err, data)
 	}
 	if _, err := dec.Token(); err != io.EOF {
-		return nil, fmt.Errorf("invalid JSON: extra data after the document (byte %d)", dec.InputOffset())
+		return nil, fmt.Errorf("invalid JSON: extra data after the document, at %s", jsonPosition(data, int(dec.InputOffset())))
 	}
 	return n, nil
 }
 
-func jsonSyntaxMessage(err error, dec *json.Decoder) error {
+// jsonPosition names a byte offset as a person editing the file finds it:
+// line and column (both from 1), and the byte.
+func jsonPosition(data []byte, offset int) string {
+	if offset > len(data) {
+		offset = len(data)
+	}
+	if offset < 0 {
+		offset = 0
+	}
+	line, col := 1, 1
+	for _, b := range data[:offset] {
+		if b == '\n' {
+			line, col = line+1, 1
+		} else if b&0xC0 != 0x80 { // count characters, not UTF-8 continuation bytes
+			col++
+		}
+	}
+	return fmt.Sprintf("line %d, column %d (byte %d)", line, col, offset)
+}
+
+func jsonSyntaxMessage(err error, data []byte) error {
+	// The streaming decoder's offsets are not always where the fault is;
+	// the whole-document check gives the exact byte.
+	var raw json.RawMessage
+	var se *json.SyntaxError
+	if uerr := json.Unmarshal(data, &raw); errors.As(uerr, &se) {
+		if len(bytes.TrimSpace(data)) == 0 || int(se.Offset) >= len(data) && strings.Contains(se.Error(), "end of JSON input") {
+			return errors.New("invalid JSON: the document ends too early")
+		}
+		// Offset counts the bytes read when the fault was found: the
+		// offending character is the one before it.
+		return fmt.Errorf("invalid JSON at %s: %s", jsonPosition(data, int(se.Offset)-1), se.Error())
+	}
 	if err == io.EOF || errors.Is(err, io.ErrUnexpectedEOF) {
 		return errors.New("invalid JSON: the document ends too early")
 	}
-	var se *json.SyntaxError
-	if errors.As(err, &se) {
-		return fmt.Errorf("invalid JSON at byte %d: %s", se.Offset, se.Error())
-	}
-	return fmt.Errorf("invalid JSON near byte %d: %s", dec.InputOffset(), err.Error())
+	return fmt.Errorf("invalid JSON: %s", err.Error())
 }
 
-func readJSONValue(dec *json.Decoder, depth int) (*jsonNode, error) {
+// jsonPathCut returns the length of the first n segments of path ("a.b[0]"
+// has three: a, .b, [0]).
+func jsonPathCut(path string, n int) int {
+	seen := 0
+	for i := 0; i < len(path); i++ {
+		if (path[i] == '.' || path[i] == '[') && i > 0 {
+			seen++
+			if seen == n {
+				return i
+			}
+		}
+	}
+	return len(path)
+}
+
+func readJSONValue(dec *json.Decoder, depth int, path string) (*jsonNode, error) {
 	if depth > maxJSONDepth {
-		return nil, fmt.Errorf("nested more than %d levels deep", maxJSONDepth)
+		// Name the value by its first few levels: the rest is the junk.
+		short := path
+		if i := jsonPathCut(path, 3); i < len(path) {
+			short = path[:i]
+		}
+		if strings.HasPrefix(short, "[") {
+			short = "document"
+		}
+		return nil, &jsonPathError{path: short, msg: fmt.Sprintf("nested more than %d levels deep; a plan document is only a few levels deep", maxJSONDepth)}
 	}
 	tok, err := dec.Token()
 	if err != nil {
@@ -277,10 +360,11 @@ func readJSONValue(dec *json.Decoder, depth int) (*jsonNode, error) {
 				key, _ := kt.(string)
 				for _, k := range n.keys {
 					if k == key {
-						return nil, fmt.Errorf("duplicate key %q", key)
+						return nil, &jsonPathError{path: planJoin(path, key),
+							msg: "duplicate key: give each key once (JSON readers disagree on which copy wins)"}
 					}
 				}
-				v, err := readJSONValue(dec, depth+1)
+				v, err := readJSONValue(dec, depth+1, planJoin(path, key))
 				if err != nil {
 					return nil, err
 				}
@@ -294,7 +378,7 @@ func readJSONValue(dec *json.Decoder, depth int) (*jsonNode, error) {
 		case '[':
 			n := &jsonNode{kind: jsonArray}
 			for dec.More() {
-				v, err := readJSONValue(dec, depth+1)
+				v, err := readJSONValue(dec, depth+1, fmt.Sprintf("%s[%d]", path, len(n.items)))
 				if err != nil {
 					return nil, err
 				}
@@ -313,7 +397,8 @@ func readJSONValue(dec *json.Decoder, depth int) (*jsonNode, error) {
 
 type planWalker struct {
 	errs PlanErrors
-	bad  map[string]bool // paths already reported, not to be reported again as missing
+	bad  map[string]bool   // paths already reported, not to be reported again as missing
+	raw  map[string]string // number text as written, for values too large for float64
 }
 
 func (w *planWalker) fail(path string, sentinel error, format string, args ...any) {
@@ -386,24 +471,37 @@ func (w *planWalker) number(path string, n *jsonNode) *float64 {
 		return nil
 	}
 	v, err := strconv.ParseFloat(n.text, 64)
-	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
-		w.fail(path, ErrOutOfRange, "%s is not a usable number", n.text)
+	if math.IsInf(v, 0) {
+		// Too large for any quantity (1e400): kept as ±Inf so that the
+		// validator names the allowed range, with the text as written.
+		w.raw[path] = n.text
+		return &v
+	}
+	if err != nil || math.IsNaN(v) {
+		w.fail(path, ErrSyntax, "%s is not a usable number%s", n.text, planKeyUnit(path))
 		return nil
 	}
 	return &v
 }
 
-func (w *planWalker) integer(path string, n *jsonNode) *int {
+// integer reads a whole number within l (count, version).
+func (w *planWalker) integer(path string, n *jsonNode, l planLimit) *int {
 	f := w.number(path, n)
 	if f == nil {
 		return nil
 	}
-	if *f != math.Trunc(*f) || math.Abs(*f) > 1e6 {
-		w.fail(path, ErrOutOfRange, "%s is not a whole number", n.text)
-		return nil
+	switch {
+	case *f > l.max:
+		w.fail(path, ErrOutOfRange, "%s is above the %s%s limit", n.text, fmtPlanNum(l.max), l.unitSuffix())
+	case *f < l.min:
+		w.fail(path, ErrOutOfRange, "%s is below the %s%s minimum", n.text, fmtPlanNum(l.min), l.unitSuffix())
+	case *f != math.Trunc(*f):
+		w.fail(path, ErrOutOfRange, "%s is not a whole number; want %s, %s to %s", n.text, l.what, fmtPlanNum(l.min), fmtPlanNum(l.max))
+	default:
+		i := int(*f)
+		return &i
 	}
-	i := int(*f)
-	return &i
+	return nil
 }
 
 func (w *planWalker) str(path string, n *jsonNode) string {
@@ -427,8 +525,12 @@ func (w *planWalker) document(root *jsonNode) *PlanDocument {
 		w.errs[len(w.errs)-1].Path = "document"
 		return d
 	}
-	if v := w.integer("version", m["version"]); v != nil {
-		d.Version = *v
+	if v := w.number("version", m["version"]); v != nil {
+		if *v == PlanDocumentVersion {
+			d.Version = PlanDocumentVersion
+		} else {
+			w.fail("version", ErrUnit, "%s is not supported; this engine reads version %d", m["version"].text, PlanDocumentVersion)
+		}
 	}
 	d.Title = w.str("title", m["title"])
 
@@ -506,7 +608,7 @@ func (w *planWalker) document(root *jsonNode) *PlanDocument {
 			LabelPressureBar: w.number(p+".label_pressure_bar", sm["label_pressure_bar"]),
 			PressurePsi:      w.number(p+".pressure_psi", sm["pressure_psi"]),
 			PressureBar:      w.number(p+".pressure_bar", sm["pressure_bar"]),
-			Count:            w.integer(p+".count", sm["count"]),
+			Count:            w.integer(p+".count", sm["count"], limitCount),
 		})
 	}
 

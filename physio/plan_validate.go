@@ -57,7 +57,8 @@ var planDevices = []Device{NasalCannula, SimpleMask, NonRebreather, Venturi, Ble
 
 type planValidator struct {
 	errs PlanErrors
-	skip map[string]bool // paths the walker already reported
+	skip map[string]bool   // paths the walker already reported
+	raw  map[string]string // number text as written, where float64 could not hold it
 }
 
 func fmtPlanNum(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
@@ -90,17 +91,21 @@ func (v *planValidator) num(path string, p *float64, l planLimit, required bool)
 		return false
 	}
 	x := *p
+	shown := fmtPlanNum(x)
+	if t, ok := v.raw[path]; ok {
+		shown = t
+	}
 	switch {
-	case math.IsNaN(x) || math.IsInf(x, 0):
+	case math.IsNaN(x):
 		v.fail(path, ErrOutOfRange, "not a finite number; want %s to %s%s", fmtPlanNum(l.min), fmtPlanNum(l.max), l.unitSuffix())
 	case x > l.max:
 		hint := ""
 		if l == limitFiO2 && x > 1 && x <= 100 {
 			hint = " (a fraction: write 0.4 for 40 %)"
 		}
-		v.fail(path, ErrOutOfRange, "%s is above the %s%s limit%s", fmtPlanNum(x), fmtPlanNum(l.max), l.unitSuffix(), hint)
+		v.fail(path, ErrOutOfRange, "%s is above the %s%s limit%s", shown, fmtPlanNum(l.max), l.unitSuffix(), hint)
 	case x < l.min:
-		v.fail(path, ErrOutOfRange, "%s is below the %s%s minimum", fmtPlanNum(x), fmtPlanNum(l.min), l.unitSuffix())
+		v.fail(path, ErrOutOfRange, "%s is below the %s%s minimum", shown, fmtPlanNum(l.min), l.unitSuffix())
 	default:
 		return true
 	}
