@@ -3,10 +3,25 @@
 package e2e
 
 import (
+	"bytes"
+	"context"
+	"encoding/base64"
+	"encoding/json"
 	"fmt"
+	"os"
+	"path/filepath"
+	"slices"
+	"sort"
 	"strings"
+	"sync"
 	"testing"
 	"time"
+
+	cdpbrowser "github.com/chromedp/cdproto/browser"
+	"github.com/chromedp/chromedp"
+
+	"alvea/app/logbook"
+	"alvea/app/logbook/idb"
 )
 
 // Passphrases of these tests: invented, accepted by the vault's rules.
@@ -156,4 +171,317 @@ func TestLogbookRecordReloadUnlock(t *testing.T) {
 	b.waitLB("no closed transport", `document.querySelector("#lb-count")?.textContent.startsWith("0 of 1")`, 5*time.Second)
 	b.tap("#lb-show-open")
 	b.waitLB("one open transport", `document.querySelector("#lb-count")?.textContent.startsWith("1 of 1")`, 5*time.Second)
+}
+
+// storageDumpJS returns, as one JSON string, everything the origin keeps in
+// IndexedDB (every database, store, key and value; byte values as Latin-1
+// text, so plain text inside them reads as itself), localStorage and
+// sessionStorage. The database names are part of the dump.
+const storageDumpJS = `(async () => {
+	const req = r => new Promise((res, rej) => { r.onsuccess = () => res(r.result); r.onerror = () => rej(r.error); });
+	const enc = v => v instanceof Uint8Array ? Array.from(v, c => String.fromCharCode(c)).join("")
+		: v instanceof ArrayBuffer ? Array.from(new Uint8Array(v), c => String.fromCharCode(c)).join("")
+		: JSON.stringify(v);
+	const out = {idb: {}, local: {}, session: {}};
+	for (const d of await indexedDB.databases()) {
+		const db = await req(indexedDB.open(d.name));
+		for (const s of Array.from(db.objectStoreNames)) {
+			const os = db.transaction(s, "readonly").objectStore(s);
+			const keys = await req(os.getAllKeys());
+			const vals = await req(os.getAll());
+			out.idb[d.name + "/" + s] = keys.map((k, i) => [JSON.stringify(k), enc(vals[i])]);
+		}
+		db.close();
+	}
+	for (let i = 0; i < localStorage.length; i++) { const k = localStorage.key(i); out.local[k] = localStorage.getItem(k); }
+	for (let i = 0; i < sessionStorage.length; i++) { const k = sessionStorage.key(i); out.session[k] = sessionStorage.getItem(k); }
+	return JSON.stringify(out);
+})()`
+
+// cacheContainsJS reports whether any response in Cache Storage (the
+// service worker's caches), or any cached URL, contains the marker.
+const cacheContainsJS = `(async (marker) => {
+	for (const name of await caches.keys()) {
+		if (name.includes(marker)) return true;
+		const c = await caches.open(name);
+		for (const r of await c.keys()) {
+			if (r.url.includes(marker)) return true;
+			const res = await c.match(r);
+			const bytes = new Uint8Array(await res.arrayBuffer());
+			const text = Array.from(bytes, c => String.fromCharCode(c)).join("");
+			if (text.includes(marker)) return true;
+		}
+	}
+	return false;
+})`
+
+// A marker typed into a note (and into the identifying field and the
+// vehicle) never appears as plain text in IndexedDB, localStorage,
+// sessionStorage, Cache Storage, the URL, or the console.
+func TestLogbookMarkerNeverStoredInPlain(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	var consoleMu sync.Mutex
+	var console []string
+	chromedp.Listen(b.ctx, func(ev any) {
+		consoleMu.Lock()
+		defer consoleMu.Unlock()
+		console = append(console, fmt.Sprintf("%#v", ev))
+	})
+	marker := "QX7MARKERZ" + fmt.Sprint(time.Now().UnixNano()%1e6)
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+	b.tap("#lb-nav-start")
+	b.waitLB("the start form", `document.querySelector("#lb-start") !== null`, 10*time.Second)
+	b.typeInto("#lb-vehicle", "Van "+marker+"V")
+	b.typeInto("#lb-origin", "Ridge post")
+	b.typeInto("#lb-dest", "Harbour ward")
+	b.typeInto("#lb-ident", "name "+marker+"I")
+	b.tap("#lb-start-go")
+	b.waitSeqs(1)
+	b.typeInto("#lb-note-text", "note "+marker+"N")
+	b.tap("#lb-note-go")
+	b.waitSeqs(2)
+	if !strings.Contains(b.timelineText(), marker+"N") {
+		t.Fatal("the note is not shown: the test would prove nothing")
+	}
+	// The check can fail: the marker is found when it is stored in plain.
+	eval[bool](b, `(localStorage.setItem("probe", "`+marker+`P"), true)`)
+	if !strings.Contains(eval[string](b, storageDumpJS), marker+"P") {
+		t.Fatal("the storage dump does not see a plain value: the check is not working")
+	}
+	eval[bool](b, `(localStorage.removeItem("probe"), true)`)
+
+	dump := eval[string](b, storageDumpJS)
+	if strings.Contains(dump, marker) {
+		i := strings.Index(dump, marker)
+		t.Errorf("marker found in browser storage near %q", dump[max(0, i-80):i])
+	}
+	if !strings.Contains(dump, idb.DBName) {
+		t.Errorf("the dump does not hold the vault database %q: the check saw nothing", idb.DBName)
+	}
+	if eval[bool](b, cacheContainsJS+`(`+fmt.Sprintf("%q", marker)+`)`) {
+		t.Error("marker found in Cache Storage")
+	}
+	if u := eval[string](b, `location.href`); strings.Contains(u, marker) {
+		t.Errorf("marker in the URL %q", u)
+	}
+	// Reload and unlock: still nothing in plain, and the console never saw it.
+	b.reload()
+	b.unlock(testPass)
+	if strings.Contains(eval[string](b, storageDumpJS), marker) {
+		t.Error("marker found in browser storage after reload and unlock")
+	}
+	consoleMu.Lock()
+	for _, line := range console {
+		if strings.Contains(line, marker) && strings.Contains(line, "Console") {
+			t.Errorf("marker in console output: %.200s", line)
+		}
+	}
+	consoleMu.Unlock()
+}
+
+// A wrong passphrase changes nothing: every byte the origin stores is the
+// same before and after, the screen says so vaguely, and the right
+// passphrase still unlocks.
+func TestLogbookWrongPassphraseChangesNothing(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+	b.startTransport("Ambulance", "Valley", "City")
+	b.reload()
+	b.waitLB("the unlock form", `document.querySelector("#lb-unlock") !== null`, 30*time.Second)
+	before := eval[string](b, storageDumpJS)
+	b.unlock(otherPass)
+	if got := b.text("#lb-problem"); !strings.Contains(got, "Wrong passphrase, or the vault is damaged. Nothing was changed.") {
+		t.Errorf("wrong passphrase: problem = %q", got)
+	}
+	if b.exists("#lb-list") || b.exists("#lb-nav-list") {
+		t.Error("a wrong passphrase showed the logbook")
+	}
+	after := eval[string](b, storageDumpJS)
+	if before != after {
+		t.Errorf("storage changed after a wrong passphrase (%d → %d bytes of dump)", len(before), len(after))
+	}
+	if !strings.Contains(before, "alvea-logbook/meta") {
+		t.Fatal("the dump holds no vault: the comparison proves nothing")
+	}
+	b.unlock(testPass)
+	b.waitLB("the list", `document.querySelector("#lb-list tr[data-transport]") !== null`, 20*time.Second)
+}
+
+// Export the vault as a bundle (a download), check it with the Go vault
+// code, then import it into a fresh browser profile and see the same
+// transports.
+func TestLogbookExportImportFreshProfile(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+	b.startTransport("Helicopter H145", "Glacier hut", "Valley hospital")
+	b.tap("#lb-ev-lift-off")
+	b.waitSeqs(2)
+	b.tap("#lb-nav-start")
+	b.startTransport("Ambulance", "Farm road", "District clinic")
+	b.tap("#lb-nav-list")
+	b.waitLB("two transports", `document.querySelectorAll("#lb-list tr[data-transport]").length === 2`, 20*time.Second)
+	rowsA := eval[[]string](b, `Array.from(document.querySelectorAll("#lb-list tbody tr")).map(r => r.textContent)`)
+
+	dl := t.TempDir()
+	if _, err := chromedp.Call(b.ctx, cdpbrowser.SetDownloadBehavior, cdpbrowser.SetDownloadBehaviorParams{
+		Behavior: cdpbrowser.SetDownloadBehaviorBehaviorAllow, DownloadPath: dl,
+	}); err != nil {
+		t.Fatalf("download behaviour: %v", err)
+	}
+	b.tap("#lb-nav-manage")
+	b.waitLB("the vault controls", `document.querySelector("#lb-export") !== null`, 10*time.Second)
+	b.tap("#lb-export")
+	var bundlePath string
+	deadline := time.Now().Add(30 * time.Second)
+	for bundlePath == "" {
+		m, _ := filepath.Glob(filepath.Join(dl, "*"+logbook.BundleExt))
+		if len(m) == 1 {
+			bundlePath = m[0]
+		} else if time.Now().After(deadline) {
+			t.Fatalf("no bundle downloaded (status %q, problem %q)", b.text("#lb-status"), b.text("#lb-problem"))
+		} else {
+			time.Sleep(100 * time.Millisecond)
+		}
+	}
+	if u := eval[string](b, `location.href`); u != srv.URL("/logbook") {
+		t.Errorf("the URL changed on export: %q", u)
+	}
+	data, err := os.ReadFile(bundlePath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The same Go code the desktop uses opens it: same transports, no problem.
+	v, err := logbook.OpenBundle(context.Background(), data, testPass)
+	if err != nil {
+		t.Fatalf("the exported bundle does not open: %v", err)
+	}
+	if ps, err := v.Verify(context.Background()); err != nil || len(ps) != 0 {
+		t.Errorf("exported bundle: verify = %v, %v", ps, err)
+	}
+	if l, err := v.List(context.Background()); err != nil || len(l.Transports) != 2 {
+		t.Errorf("exported bundle lists %v transports (err %v), want 2", l, err)
+	}
+
+	// A fresh profile: import, then the same list.
+	b2 := newBrowser(t, t.TempDir())
+	b2.openLogbook(srv.URL("/logbook"))
+	b2.waitLB("the empty logbook", `document.querySelector("#lb-import") !== null`, 30*time.Second)
+	// A changed bundle is refused and nothing is written.
+	bad := bytes.Clone(data)
+	bad[len(bad)/2] ^= 0x01
+	badPath := filepath.Join(t.TempDir(), "changed"+logbook.BundleExt)
+	if err := os.WriteFile(badPath, bad, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	b2.must("choose the changed bundle", chromedp.SetUploadFiles("#lb-import-file", []string{badPath}))
+	b2.typeInto("#lb-import-pass", testPass)
+	b2.tap("#lb-import-go")
+	b2.waitLB("the refusal", `(document.querySelector("#lb-problem")?.textContent ?? "").includes("Nothing was written")`, waitLong)
+	if d := eval[string](b2, storageDumpJS); strings.Contains(d, `"alvea-logbook/meta":[[`) {
+		t.Error("a refused bundle wrote a header")
+	}
+	b2.must("choose the bundle", chromedp.SetUploadFiles("#lb-import-file", []string{bundlePath}))
+	b2.typeInto("#lb-import-pass", testPass)
+	b2.tap("#lb-import-go")
+	b2.waitLB("the imported list", `document.querySelectorAll("#lb-list tr[data-transport]").length === 2`, waitLong)
+	rowsB := eval[[]string](b2, `Array.from(document.querySelectorAll("#lb-list tbody tr")).map(r => r.textContent)`)
+	if !slices.Equal(rowsA, rowsB) {
+		t.Errorf("imported list differs:\n got %q\nwant %q", rowsB, rowsA)
+	}
+	b2.tap("#lb-list tbody tr:last-child button")
+	b2.waitSeqs(2)
+	if tl := b2.timelineText(); !strings.Contains(tl, "lift-off") {
+		t.Errorf("imported timeline lacks the lift-off: %s", tl)
+	}
+	// And it survives a reload in the new profile.
+	b2.reload()
+	b2.unlock(testPass)
+	b2.waitLB("the list after reload", `document.querySelectorAll("#lb-list tr[data-transport]").length === 2`, 20*time.Second)
+}
+
+// tab opens a new tab in b's browser (same profile).
+func (b *browser) tab() (*browser, context.CancelFunc) {
+	ctx, cancel := chromedp.NewContext(b.ctx)
+	if err := chromedp.Do(ctx); err != nil {
+		b.t.Fatalf("new tab: %v", err)
+	}
+	return &browser{t: b.t, dataDir: b.dataDir, ctx: ctx}, cancel
+}
+
+// Closing the tab in the middle of saving, many times over, loses no record
+// the screen showed as saved and leaves no half record: after each close a
+// new tab unlocks, finds every record seen before, and the whole vault
+// verifies with no problem.
+func TestLogbookCloseTabWhileSaving(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	first, closeFirst := b.tab()
+	first.openLogbook(srv.URL("/logbook"))
+	first.createVault(testPass)
+	first.startTransport("Fixed wing", "Island strip", "Mainland base")
+	closeFirst()
+
+	const rounds = 20
+	var seen []int // every record any tab showed as saved
+	for round := 0; round < rounds; round++ {
+		tb, closeTab := b.tab()
+		tb.openLogbook(srv.URL("/logbook"))
+		tb.unlock(testPass)
+		tb.waitLB("the list", `document.querySelector("#lb-list tbody button") !== null`, 20*time.Second)
+		tb.tap("#lb-list tbody button")
+		tb.waitLB("the timeline", `document.querySelector("#lb-timeline li[data-seq]") !== null && !document.querySelector(".lb-busy")`, 20*time.Second)
+		shown := tb.savedSeqs()
+		for _, s := range seen {
+			if !slices.Contains(shown, s) {
+				t.Errorf("round %d: record R%d was shown as saved before a close, and is gone", round, s)
+			}
+		}
+		// Every record verifies (no half record, chain and head intact).
+		tb.tap("#lb-nav-manage")
+		tb.waitLB("the vault controls", `document.querySelector("#lb-verify") !== null`, 10*time.Second)
+		tb.tap("#lb-verify")
+		tb.waitLB("the check", `document.querySelector("#lb-verify-result") !== null`, 30*time.Second)
+		if got := tb.text("#lb-verify-result"); got != "Every record checked: no problem found." {
+			t.Errorf("round %d: check = %q", round, got)
+		}
+		tb.tap("#lb-nav-list")
+		tb.waitLB("the list", `document.querySelector("#lb-list tbody button") !== null`, 20*time.Second)
+		tb.tap("#lb-list tbody button")
+		tb.waitLB("the timeline", `document.querySelector("#lb-note-text") !== null && !document.querySelector(".lb-busy")`, 20*time.Second)
+		// Start an append, and close the tab a varying moment later.
+		eval[bool](tb, fmt.Sprintf(`(() => { const t = document.querySelector("#lb-note-text"); t.value = "round %d"; t.dispatchEvent(new Event("input", {bubbles: true})); return true })()`, round))
+		time.Sleep(50 * time.Millisecond) // the input reaches Go
+		delay := time.Duration(round%10) * 4 * time.Millisecond
+		shownNow := eval[[]int](tb, `(async () => {
+			document.querySelector("#lb-note-go").click();
+			await new Promise(r => setTimeout(r, `+fmt.Sprint(delay.Milliseconds())+`));
+			return Array.from(document.querySelectorAll("#lb-timeline li[data-seq]")).map(e => +e.dataset.seq);
+		})()`)
+		closeTab()
+		for _, s := range shownNow {
+			if !slices.Contains(seen, s) {
+				seen = append(seen, s)
+			}
+		}
+		sort.Ints(seen)
+	}
+	// A last look: every record seen is there, and nothing is damaged.
+	tb, closeTab := b.tab()
+	defer closeTab()
+	tb.openLogbook(srv.URL("/logbook"))
+	tb.unlock(testPass)
+	tb.tap("#lb-nav-manage")
+	tb.waitLB("the vault controls", `document.querySelector("#lb-verify") !== null`, 10*time.Second)
+	tb.tap("#lb-verify")
+	tb.waitLB("the check", `document.querySelector("#lb-verify-result") !== null`, 30*time.Second)
+	if got := tb.text("#lb-verify-result"); got != "Every record checked: no problem found." {
+		t.Errorf("final check = %q", got)
+	}
+	t.Logf("%d records seen saved over %d rounds of closing the tab while saving", len(seen), rounds)
 }

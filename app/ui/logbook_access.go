@@ -24,9 +24,9 @@ func (a *accessForm) clearSecrets() {
 	*a = accessForm{importName: name}
 }
 
-// passwordField renders a labelled passphrase input (never autocompleted
+// lbPasswordField renders a labelled passphrase input (never autocompleted
 // into a browser's password store, never spell-checked).
-func passwordField(id, label, value, hint, message, autocomplete string, onInput func(ctx app.Context, text string)) app.UI {
+func lbPasswordField(id, label, value, hint, message, autocomplete string, onInput func(ctx app.Context, text string)) app.UI {
 	described := ""
 	if hint != "" {
 		described = id + "-hint"
@@ -51,7 +51,7 @@ func passwordField(id, label, value, hint, message, autocomplete string, onInput
 	)
 }
 
-const passphraseHint = "At least 10 characters. A few unrelated words work well. Common passwords, keyboard runs and repeated characters are refused. There is no way to recover a forgotten passphrase."
+const lbPassphraseHint = "At least 10 characters. A few unrelated words work well. Common passwords, keyboard runs and repeated characters are refused. There is no way to recover a forgotten passphrase."
 
 func (l *logbookScreen) renderEmpty() app.UI {
 	a := &l.access
@@ -59,9 +59,9 @@ func (l *logbookScreen) renderEmpty() app.UI {
 		app.Form().ID("lb-create").Class("alv-card").OnSubmit(l.create).Body(
 			app.H2().Class("alv-card-title").Text("Create the logbook"),
 			app.P().Class("alv-note").Text("Transports are kept on this device, encrypted with a key that only this passphrase unlocks."),
-			passwordField("lb-new-pass", "Passphrase", a.pass, passphraseHint, a.createMessage, "new-password",
+			lbPasswordField("lb-new-pass", "Passphrase", a.pass, lbPassphraseHint, a.createMessage, "new-password",
 				func(ctx app.Context, t string) { a.pass, a.createMessage = t, "" }),
-			passwordField("lb-new-again", "Passphrase again", a.again, "", a.againMessage, "new-password",
+			lbPasswordField("lb-new-again", "Passphrase again", a.again, "", a.againMessage, "new-password",
 				func(ctx app.Context, t string) { a.again, a.againMessage = t, "" }),
 			app.Button().ID("lb-create-go").Type("submit").Class("alv-button alv-primary").Text("Create").Disabled(l.busy != ""),
 		),
@@ -71,9 +71,9 @@ func (l *logbookScreen) renderEmpty() app.UI {
 			app.Div().Class("alv-field").Body(
 				app.Label().For("lb-import-file").Text("Bundle file"),
 				app.Input().ID("lb-import-file").Class("lb-file").Type("file").Accept(logbook.BundleExt+",application/octet-stream").
-					OnChange(func(ctx app.Context, e app.Event) { a.importName = fileName("lb-import-file") }),
+					OnChange(func(ctx app.Context, e app.Event) { a.importName = lbFileName("lb-import-file") }),
 			),
-			passwordField("lb-import-pass", "Passphrase of the bundle", a.importPass, "", "", "off",
+			lbPasswordField("lb-import-pass", "Passphrase of the bundle", a.importPass, "", "", "off",
 				func(ctx app.Context, t string) { a.importPass = t }),
 			app.Button().ID("lb-import-go").Type("submit").Class("alv-button").Text("Import").Disabled(l.busy != ""),
 		),
@@ -84,7 +84,7 @@ func (l *logbookScreen) renderLocked() app.UI {
 	a := &l.access
 	return app.Form().ID("lb-unlock").Class("alv-card lb-narrow").OnSubmit(l.unlock).Body(
 		app.H2().Class("alv-card-title").Text("Unlock the logbook"),
-		passwordField("lb-pass", "Passphrase", a.unlock, "", "", "current-password",
+		lbPasswordField("lb-pass", "Passphrase", a.unlock, "", "", "current-password",
 			func(ctx app.Context, t string) { a.unlock = t }),
 		app.Button().ID("lb-unlock-go").Type("submit").Class("alv-button alv-primary").Text("Unlock").Disabled(l.busy != ""),
 		app.P().Class("alv-note").Text("The logbook locks itself after some minutes without use, and when you tap Lock."),
@@ -136,7 +136,7 @@ func (l *logbookScreen) importBundle(ctx app.Context, e app.Event) {
 	e.PreventDefault()
 	pass := l.access.importPass
 	l.run(ctx, "Checking the bundle…", func(c context.Context) error {
-		data, err := readFile(c, "lb-import-file")
+		data, err := lbReadFile(c, "lb-import-file")
 		if err != nil {
 			return err
 		}
@@ -144,7 +144,7 @@ func (l *logbookScreen) importBundle(ctx app.Context, e app.Event) {
 	}, func(ctx app.Context, err error) {
 		l.access.importPass = ""
 		switch {
-		case errors.Is(err, errNoFile):
+		case errors.Is(err, lbErrNoFile):
 			l.problem = "Choose a bundle file first."
 		case err != nil:
 			l.problem = vaultMessage(err)

@@ -12,12 +12,12 @@ import (
 // appear in a URL; the URL names an object in this page only, and is
 // revoked after the download starts).
 
-// readFile reads the file chosen in the file input with the element id.
+// lbReadFile reads the file chosen in the file input with the element id.
 // Call it from a goroutine: it waits for the browser.
-var readFile = func(ctx context.Context, id string) ([]byte, error) {
+var lbReadFile = func(ctx context.Context, id string) ([]byte, error) {
 	el := js.Global().Get("document").Call("getElementById", id)
 	if !el.Truthy() || el.Get("files").Get("length").Int() == 0 {
-		return nil, errNoFile
+		return nil, lbErrNoFile
 	}
 	file := el.Get("files").Index(0)
 	type result struct {
@@ -58,8 +58,8 @@ var readFile = func(ctx context.Context, id string) ([]byte, error) {
 	return b, nil
 }
 
-// fileName returns the name of the file chosen in the input with the id.
-func fileName(id string) string {
+// lbFileName returns the name of the file chosen in the input with the id.
+func lbFileName(id string) string {
 	el := js.Global().Get("document").Call("getElementById", id)
 	if !el.Truthy() || el.Get("files").Get("length").Int() == 0 {
 		return ""
@@ -67,8 +67,8 @@ func fileName(id string) string {
 	return el.Get("files").Index(0).Get("name").String()
 }
 
-// download offers data as a file named name.
-var download = func(name string, data []byte) error {
+// lbDownload offers data as a file named name.
+var lbDownload = func(name string, data []byte) error {
 	u8 := js.Global().Get("Uint8Array").New(len(data))
 	js.CopyBytesToJS(u8, data)
 	blob := js.Global().Get("Blob").New(js.ValueOf([]any{u8}), map[string]any{"type": "application/octet-stream"})

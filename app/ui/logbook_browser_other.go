@@ -9,8 +9,8 @@ import (
 
 // Natively there is no file input and no download; tests replace these.
 
-var readFile = func(ctx context.Context, id string) ([]byte, error) { return nil, errNoFile }
+var lbReadFile = func(ctx context.Context, id string) ([]byte, error) { return nil, lbErrNoFile }
 
-func fileName(id string) string { return "" }
+func lbFileName(id string) string { return "" }
 
-var download = func(name string, data []byte) error { return errors.ErrUnsupported }
+var lbDownload = func(name string, data []byte) error { return errors.ErrUnsupported }

@@ -84,21 +84,21 @@ func (l *logbookScreen) renderList() app.UI {
 	)
 }
 
-// listShown caps the rows drawn at once; the count above says how many
+// lbListShown caps the rows drawn at once; the count above says how many
 // match, and the search narrows them.
-const listShown = 200
+const lbListShown = 200
 
 func (l *logbookScreen) renderTable(rows []logbook.TransportSummary) app.UI {
 	more := 0
-	if len(rows) > listShown {
-		more = len(rows) - listShown
-		rows = rows[:listShown]
+	if len(rows) > lbListShown {
+		more = len(rows) - lbListShown
+		rows = rows[:lbListShown]
 	}
 	trs := make([]app.UI, 0, len(rows))
 	for _, r := range rows {
 		id := r.ID
 		trs = append(trs, app.Tr().DataSet("transport", string(id)).Body(
-			app.Td().Class("alv-num-cell").Text(dayAndClock(r.Opened)),
+			app.Td().Class("alv-num-cell").Text(lbDayAndClock(r.Opened)),
 			app.Td().Body(
 				app.Button().Type("button").Class("alv-button lb-open-row").ID("lb-row-"+string(id)).
 					Aria("label", "Open transport "+string(id)).
@@ -107,7 +107,7 @@ func (l *logbookScreen) renderTable(rows []logbook.TransportSummary) app.UI {
 				app.Div().Class("lb-id").Text(string(id)),
 			),
 			app.Td().Text(r.Vehicle),
-			app.Td().Body(flagsOf(r)...),
+			app.Td().Body(lbFlagsOf(r)...),
 		))
 	}
 	return app.Div().Class("lb-table-wrap").Body(
@@ -127,12 +127,12 @@ func (l *logbookScreen) renderTable(rows []logbook.TransportSummary) app.UI {
 	)
 }
 
-// flagsOf lists what a transport's line warns about.
-func flagsOf(r logbook.TransportSummary) []app.UI {
+// lbFlagsOf lists what a transport's line warns about.
+func lbFlagsOf(r logbook.TransportSummary) []app.UI {
 	flag := func(class, text string) app.UI { return app.Span().Class("lb-flag " + class).Text(text) }
 	var out []app.UI
 	if r.IsClosed() {
-		out = append(out, flag("lb-flag-closed", "closed "+dayAndClock(r.Closed)))
+		out = append(out, flag("lb-flag-closed", "closed "+lbDayAndClock(r.Closed)))
 	} else {
 		out = append(out, flag("lb-flag-open", "open"))
 	}

@@ -36,9 +36,9 @@ func (l *logbookScreen) renderManage() app.UI {
 			),
 			app.Form().ID("lb-change").Class("alv-card").OnSubmit(l.changePassphrase).Body(
 				app.H2().Class("alv-card-title").Text("Change passphrase"),
-				passwordField("lb-cur-pass", "Current passphrase", m.current, "", "", "current-password", func(ctx app.Context, t string) { m.current = t }),
-				passwordField("lb-next-pass", "New passphrase", m.next, passphraseHint, m.nextMsg, "new-password", func(ctx app.Context, t string) { m.next, m.nextMsg = t, "" }),
-				passwordField("lb-next-again", "New passphrase again", m.again, "", m.againMsg, "new-password", func(ctx app.Context, t string) { m.again, m.againMsg = t, "" }),
+				lbPasswordField("lb-cur-pass", "Current passphrase", m.current, "", "", "current-password", func(ctx app.Context, t string) { m.current = t }),
+				lbPasswordField("lb-next-pass", "New passphrase", m.next, lbPassphraseHint, m.nextMsg, "new-password", func(ctx app.Context, t string) { m.next, m.nextMsg = t, "" }),
+				lbPasswordField("lb-next-again", "New passphrase again", m.again, "", m.againMsg, "new-password", func(ctx app.Context, t string) { m.again, m.againMsg = t, "" }),
 				app.Button().Type("submit").ID("lb-change-go").Class("alv-button").Text("Change passphrase").Disabled(l.busy != ""),
 			),
 		),
@@ -60,7 +60,7 @@ func (l *logbookScreen) renderStorage() app.UI {
 		}
 		lines = append(lines,
 			app.P().ID("lb-persist").Text(persist),
-			app.P().ID("lb-usage").Text(fmt.Sprintf("Used: %s of %s available to this app.", bytesText(st.Usage), bytesText(st.Quota))),
+			app.P().ID("lb-usage").Text(fmt.Sprintf("Used: %s of %s available to this app.", lbBytesText(st.Usage), lbBytesText(st.Quota))),
 		)
 	}
 	kdf := ""
@@ -80,7 +80,7 @@ func (l *logbookScreen) export(ctx app.Context, e app.Event) {
 			return err
 		}
 		name := "alvea-logbook-" + time.Now().Format("20060102-1504") + logbook.BundleExt
-		return download(name, data)
+		return lbDownload(name, data)
 	}, func(ctx app.Context, err error) {
 		if err != nil {
 			l.problem = vaultMessage(err)

@@ -23,7 +23,7 @@ type recordState struct {
 	otherText string
 	gaugeCyl  string
 	gaugeText string
-	obs       obsForm
+	obs       lbObsForm
 	noteText  string
 	outcome   string
 
@@ -37,7 +37,7 @@ type recordState struct {
 	saved   uint64 // the last record the store confirmed
 }
 
-type obsForm struct {
+type lbObsForm struct {
 	spo2, fio2, device, flow, rr, etco2, hr string
 }
 
@@ -111,7 +111,7 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 			return
 		}
 		r.saved = ie.Seq
-		l.status = "Saved " + what + " as " + ie.Record() + " at " + clock(ie.At) + "."
+		l.status = "Saved " + what + " as " + ie.Record() + " at " + lbClock(ie.At) + "."
 		if tr != nil {
 			r.transport = tr
 		}
@@ -134,14 +134,14 @@ func (l *logbookScreen) renderRecord() app.UI {
 		app.Div().Class("alv-card").Body(
 			app.H2().Class("alv-card-title").ID("lb-record-title").Text(o.Origin.Name+" → "+o.Destination.Name),
 			app.Dl().Class("lb-facts").Body(
-				fact("Transport", string(t.ID)),
-				fact("Opened", dayAndClock(t.Opened)),
-				fact("Closed", dayAndClock(t.Closed)),
-				fact("Vehicle", o.Vehicle),
-				fact("Crew", strings.Join(o.Crew, " ")),
-				fact("Patient", patientText(o.Patient)),
-				fact("Cylinders", cylindersText(t.Cylinders)),
-				fact("Brief", briefText(t.Briefs)),
+				lbFact("Transport", string(t.ID)),
+				lbFact("Opened", lbDayAndClock(t.Opened)),
+				lbFact("Closed", lbDayAndClock(t.Closed)),
+				lbFact("Vehicle", o.Vehicle),
+				lbFact("Crew", strings.Join(o.Crew, " ")),
+				lbFact("Patient", lbPatientText(o.Patient)),
+				lbFact("Cylinders", lbCylindersText(t.Cylinders)),
+				lbFact("Brief", lbBriefText(t.Briefs)),
 			),
 			app.If(o.Patient.Identifying != "", func() app.UI {
 				return app.P().Class("lb-ident-warn").Text("This transport holds identifying patient text (stored encrypted).")
@@ -158,14 +158,14 @@ func (l *logbookScreen) renderRecord() app.UI {
 	)
 }
 
-func fact(label, value string) app.UI {
+func lbFact(label, value string) app.UI {
 	if value == "" {
 		value = "—"
 	}
 	return app.Div().Class("lb-fact").Body(app.Dt().Text(label), app.Dd().Text(value))
 }
 
-func patientText(p logbook.Patient) string {
+func lbPatientText(p logbook.Patient) string {
 	var parts []string
 	if p.AgeBand != "" {
 		parts = append(parts, string(p.AgeBand))
@@ -182,7 +182,7 @@ func patientText(p logbook.Patient) string {
 	return strings.Join(parts, ", ")
 }
 
-func cylindersText(cs []logbook.CylinderSpec) string {
+func lbCylindersText(cs []logbook.CylinderSpec) string {
 	var parts []string
 	for _, c := range cs {
 		d := c.Label
@@ -197,7 +197,7 @@ func cylindersText(cs []logbook.CylinderSpec) string {
 	return strings.Join(parts, ", ")
 }
 
-func briefText(bs []logbook.Timed[logbook.Brief]) string {
+func lbBriefText(bs []logbook.Timed[logbook.Brief]) string {
 	if len(bs) == 0 {
 		return "no plan snapshot"
 	}
@@ -212,8 +212,8 @@ func briefText(bs []logbook.Timed[logbook.Brief]) string {
 	return s
 }
 
-// oneTap are the milestones saved with one tap, timed at the tap.
-var oneTap = []struct {
+// lbOneTap are the milestones saved with one tap, timed at the tap.
+var lbOneTap = []struct {
 	Type  logbook.EventType
 	Label string
 }{
@@ -229,8 +229,8 @@ var oneTap = []struct {
 func (l *logbookScreen) renderEntries() app.UI {
 	r := &l.record
 	u := l.units
-	events := make([]app.UI, 0, len(oneTap))
-	for _, ev := range oneTap {
+	events := make([]app.UI, 0, len(lbOneTap))
+	for _, ev := range lbOneTap {
 		ev := ev
 		events = append(events, app.Button().Type("button").ID("lb-ev-"+string(ev.Type)).Class("alv-button lb-tap").
 			Text(ev.Label).Disabled(l.busy != "").
@@ -305,7 +305,7 @@ func (l *logbookScreen) saveGauge(ctx app.Context, e app.Event) {
 	r := &l.record
 	unit := l.units.PressureUnit
 	l.save(ctx, "gauge reading", func() (*logbook.Entry, error) {
-		p, err := physio.ParsePressure(withUnit(r.gaugeText, unit))
+		p, err := physio.ParsePressure(lbWithUnit(r.gaugeText, unit))
 		if err != nil {
 			return nil, fmt.Errorf("Gauge reading: %s", err.Error())
 		}
@@ -313,11 +313,11 @@ func (l *logbookScreen) saveGauge(ctx app.Context, e app.Event) {
 	}, func() { r.gaugeText = "" })
 }
 
-// readObservation reads the observation form; empty fields stay absent.
-func readObservation(f obsForm, gasUnit string) (*logbook.Observation, error) {
+// lbReadObservation reads the observation form; empty fields stay absent.
+func lbReadObservation(f lbObsForm, gasUnit string) (*logbook.Observation, error) {
 	o := &logbook.Observation{Device: strings.TrimSpace(f.device)}
 	if t := strings.TrimSpace(f.spo2); t != "" {
-		v, err := physio.ParseFraction(withUnit(t, "%"))
+		v, err := physio.ParseFraction(lbWithUnit(t, "%"))
 		if err != nil {
 			return nil, fmt.Errorf("SpO2: %s", err.Error())
 		}
@@ -331,14 +331,14 @@ func readObservation(f obsForm, gasUnit string) (*logbook.Observation, error) {
 		o.FiO2 = &v
 	}
 	if t := strings.TrimSpace(f.flow); t != "" {
-		v, err := physio.ParseFlow(withUnit(t, "L/min"))
+		v, err := physio.ParseFlow(lbWithUnit(t, "L/min"))
 		if err != nil {
 			return nil, fmt.Errorf("O2 flow: %s", err.Error())
 		}
 		o.Flow = &v
 	}
 	if t := strings.TrimSpace(f.etco2); t != "" {
-		v, err := physio.ParsePressure(withUnit(t, gasUnit))
+		v, err := physio.ParsePressure(lbWithUnit(t, gasUnit))
 		if err != nil {
 			return nil, fmt.Errorf("EtCO2: %s", err.Error())
 		}
@@ -364,12 +364,12 @@ func (l *logbookScreen) saveObs(ctx app.Context, e app.Event) {
 	r := &l.record
 	gas := l.units.GasUnit
 	l.save(ctx, "observations", func() (*logbook.Entry, error) {
-		o, err := readObservation(r.obs, gas)
+		o, err := lbReadObservation(r.obs, gas)
 		if err != nil {
 			return nil, err
 		}
 		return &logbook.Entry{Kind: logbook.KindObserve, Observe: o}, nil
-	}, func() { r.obs = obsForm{device: r.obs.device} })
+	}, func() { r.obs = lbObsForm{device: r.obs.device} })
 }
 
 func (l *logbookScreen) saveNote(ctx app.Context, e app.Event) {
@@ -414,9 +414,9 @@ func (l *logbookScreen) renderTimeline() app.UI {
 			cls += " lb-corrected"
 		}
 		items = append(items, app.Li().Class(cls).DataSet("seq", strconv.FormatUint(e.Seq, 10)).Body(
-			app.Span().Class("lb-time alv-num-cell").Text(clock(e.At)),
+			app.Span().Class("lb-time alv-num-cell").Text(lbClock(e.At)),
 			app.Span().Class("lb-rec").Text(logbook.RecordName(e.Seq)),
-			app.Span().Class("lb-what").Text(describe(e, l.units)),
+			app.Span().Class("lb-what").Text(lbDescribe(e, l.units)),
 			app.If(len(amendedBy[e.Seq]) > 0, func() app.UI {
 				return app.Span().Class("lb-flag lb-flag-amended").Text("corrected by " + strings.Join(amendedBy[e.Seq], ", "))
 			}),
@@ -448,8 +448,8 @@ func (l *logbookScreen) renderTimeline() app.UI {
 	)
 }
 
-// describe is one entry's line in the timeline.
-func describe(e *logbook.Entry, u Settings) string {
+// lbDescribe is one entry's line in the timeline.
+func lbDescribe(e *logbook.Entry, u Settings) string {
 	switch e.Kind {
 	case logbook.KindOpen:
 		return "Opened: " + e.Open.Origin.Name + " → " + e.Open.Destination.Name
@@ -458,12 +458,12 @@ func describe(e *logbook.Entry, u Settings) string {
 		if e.Void {
 			return s + "withdrawn"
 		}
-		return s + payloadText(e, u)
+		return s + lbPayloadText(e, u)
 	}
-	return payloadText(e, u)
+	return lbPayloadText(e, u)
 }
 
-func payloadText(e *logbook.Entry, u Settings) string {
+func lbPayloadText(e *logbook.Entry, u Settings) string {
 	switch {
 	case e.Event != nil:
 		s := "Event: " + string(e.Event.Type)
@@ -475,7 +475,7 @@ func payloadText(e *logbook.Entry, u Settings) string {
 		}
 		return s
 	case e.Gauge != nil:
-		return "Gauge " + e.Gauge.Cylinder + ": " + pressureText(e.Gauge.Pressure, u.PressureUnit)
+		return "Gauge " + e.Gauge.Cylinder + ": " + lbPressureText(e.Gauge.Pressure, u.PressureUnit)
 	case e.Observe != nil:
 		o := e.Observe
 		var p []string
@@ -495,7 +495,7 @@ func payloadText(e *logbook.Entry, u Settings) string {
 			p = append(p, fmt.Sprintf("RR %g/min", *o.RespRate))
 		}
 		if o.EtCO2 != nil {
-			p = append(p, "EtCO2 "+gasText(*o.EtCO2, u.GasUnit))
+			p = append(p, "EtCO2 "+lbGasText(*o.EtCO2, u.GasUnit))
 		}
 		if o.HeartRate != nil {
 			p = append(p, fmt.Sprintf("HR %g/min", *o.HeartRate))
@@ -504,7 +504,7 @@ func payloadText(e *logbook.Entry, u Settings) string {
 	case e.Note != nil:
 		return "Note: " + e.Note.Text
 	case e.Cylinder != nil:
-		return "Cylinder added: " + cylindersText([]logbook.CylinderSpec{*e.Cylinder})
+		return "Cylinder added: " + lbCylindersText([]logbook.CylinderSpec{*e.Cylinder})
 	case e.Brief != nil:
 		return "Brief amended (engine " + e.Brief.EngineVersion + ")"
 	case e.Close != nil:
@@ -531,7 +531,7 @@ func (l *logbookScreen) renderAmend() app.UI {
 	canReplace := target.Kind == logbook.KindNote || target.Kind == logbook.KindGauge
 	return app.Form().ID("lb-amend").Class("alv-card").OnSubmit(l.saveAmend).Body(
 		app.H2().Class("alv-card-title").Text("Correct "+logbook.RecordName(target.Seq)),
-		app.P().Class("alv-note").Text("The original stays in the log; the correction is a new record pointing at it. "+describe(target, l.units)),
+		app.P().Class("alv-note").Text("The original stays in the log; the correction is a new record pointing at it. "+lbDescribe(target, l.units)),
 		textField("lb-amend-reason", "Reason", r.amendReason, "", func(ctx app.Context, t string) { r.amendReason = t }),
 		app.Div().Class("alv-field lb-check").Body(
 			app.Input().Type("checkbox").ID("lb-amend-void").Checked(r.amendVoid || !canReplace).Disabled(!canReplace).
@@ -578,7 +578,7 @@ func (l *logbookScreen) saveAmend(ctx app.Context, e app.Event) {
 		case target.Kind == logbook.KindNote:
 			a.Note = &logbook.Note{Text: strings.TrimSpace(r.amendText)}
 		case target.Kind == logbook.KindGauge:
-			p, err := physio.ParsePressure(withUnit(r.amendText, unit))
+			p, err := physio.ParsePressure(lbWithUnit(r.amendText, unit))
 			if err != nil {
 				return nil, fmt.Errorf("Corrected gauge reading: %s", err.Error())
 			}

@@ -42,12 +42,12 @@ func (l *logbookScreen) prepareStart(ctx app.Context) {
 	if m.doc != nil {
 		au := l.units.AltitudeUnit
 		if e := m.doc.Route.OriginElevationFt; e != nil {
-			f.originElev = altitudeText(physio.Feet(*e), au)
+			f.originElev = lbAltitudeText(physio.Feet(*e), au)
 		}
 		if e := m.doc.Route.DestinationElevationFt; e != nil {
-			f.destElev = altitudeText(physio.Feet(*e), au)
+			f.destElev = lbAltitudeText(physio.Feet(*e), au)
 		}
-		f.cylinders = cylindersFromPlan(m.doc)
+		f.cylinders = lbCylindersFromPlan(m.doc)
 	}
 	if !m.ok() {
 		f.briefNote = "The Brief is not complete (" + strconv.Itoa(len(m.order)+len(m.other)) + " item(s) to fix): the transport starts without a plan snapshot. Fix the Brief first to keep one."
@@ -66,9 +66,9 @@ func (l *logbookScreen) prepareStart(ctx app.Context) {
 	l.start = f
 }
 
-// cylindersFromPlan lists the Brief's cylinders, one per cylinder on board,
+// lbCylindersFromPlan lists the Brief's cylinders, one per cylinder on board,
 // labelled by kind and number (E1, E2, …).
-func cylindersFromPlan(doc *physio.PlanDocument) []logbook.CylinderSpec {
+func lbCylindersFromPlan(doc *physio.PlanDocument) []logbook.CylinderSpec {
 	var out []logbook.CylinderSpec
 	seen := map[string]int{}
 	for _, s := range doc.Supply {
@@ -107,15 +107,15 @@ func cylindersFromPlan(doc *physio.PlanDocument) []logbook.CylinderSpec {
 	return out
 }
 
-var ageBands = []choice{
+var lbAgeBands = []choice{
 	{"", "Not given"}, {string(logbook.AgeNeonate), "Neonate (< 28 days)"}, {string(logbook.AgeInfant), "Infant (< 1 year)"},
 	{string(logbook.AgeChild), "Child (1–11)"}, {string(logbook.AgeAdolescent), "Adolescent (12–17)"},
 	{string(logbook.AgeAdult), "Adult (18–64)"}, {string(logbook.AgeOlderAdult), "Older adult (65+)"},
 }
 
-var sexes = []choice{{"", "Not given"}, {string(logbook.SexFemale), "Female"}, {string(logbook.SexMale), "Male"}, {string(logbook.SexOther), "Other"}}
+var lbSexes = []choice{{"", "Not given"}, {string(logbook.SexFemale), "Female"}, {string(logbook.SexMale), "Male"}, {string(logbook.SexOther), "Other"}}
 
-func selectField(id, label, current string, options []choice, onPick func(ctx app.Context, v string)) app.UI {
+func lbSelectField(id, label, current string, options []choice, onPick func(ctx app.Context, v string)) app.UI {
 	opts := make([]app.UI, 0, len(options))
 	for _, o := range options {
 		opts = append(opts, app.Option().Value(o.Value).Text(o.Label).Selected(o.Value == current))
@@ -136,7 +136,7 @@ func (l *logbookScreen) renderStart() app.UI {
 			app.H2().Class("alv-card-title").Text("Start transport"),
 			app.P().ID("lb-start-brief").Class("alv-note").Text(f.briefNote),
 			app.If(len(f.cylinders) > 0, func() app.UI {
-				return app.P().Class("alv-note").Text("Cylinders on board: " + cylindersText(f.cylinders))
+				return app.P().Class("alv-note").Text("Cylinders on board: " + lbCylindersText(f.cylinders))
 			}),
 			app.Div().Class("lb-start-grid").Body(
 				textField("lb-vehicle", "Vehicle or aircraft", f.vehicle, f.vehicleMsg, func(ctx app.Context, t string) { f.vehicle, f.vehicleMsg = t, "" }),
@@ -149,8 +149,8 @@ func (l *logbookScreen) renderStart() app.UI {
 			app.FieldSet().Class("alv-fieldset").Body(
 				app.Legend().Text("Patient (kept minimal)"),
 				app.Div().Class("lb-start-grid").Body(
-					selectField("lb-age", "Age band", f.age, ageBands, func(ctx app.Context, v string) { f.age = v }),
-					selectField("lb-sex", "Sex", f.sex, sexes, func(ctx app.Context, v string) { f.sex = v }),
+					lbSelectField("lb-age", "Age band", f.age, lbAgeBands, func(ctx app.Context, v string) { f.age = v }),
+					lbSelectField("lb-sex", "Sex", f.sex, lbSexes, func(ctx app.Context, v string) { f.sex = v }),
 					numberField("lb-weight", "Weight", "kg", f.weight, f.weightMsg, func(ctx app.Context, t string) { f.weight, f.weightMsg = t, "" }),
 				),
 				app.Div().Class("alv-field").Body(
@@ -166,13 +166,13 @@ func (l *logbookScreen) renderStart() app.UI {
 	)
 }
 
-// readPlace reads a place's elevation in the display unit ("" = not given).
-func readPlace(name, elev, unit string) (logbook.Place, string) {
+// lbReadPlace reads a place's elevation in the display unit ("" = not given).
+func lbReadPlace(name, elev, unit string) (logbook.Place, string) {
 	p := logbook.Place{Name: strings.TrimSpace(name)}
 	if strings.TrimSpace(elev) == "" {
 		return p, ""
 	}
-	a, err := physio.ParseAltitude(withUnit(elev, unit))
+	a, err := physio.ParseAltitude(lbWithUnit(elev, unit))
 	if err != nil {
 		return p, err.Error()
 	}
@@ -184,8 +184,8 @@ func (l *logbookScreen) startTransport(ctx app.Context, e app.Event) {
 	e.PreventDefault()
 	f := &l.start
 	au := l.units.AltitudeUnit
-	origin, om := readPlace(f.origin, f.originElev, au)
-	dest, dm := readPlace(f.dest, f.destElev, au)
+	origin, om := lbReadPlace(f.origin, f.originElev, au)
+	dest, dm := lbReadPlace(f.dest, f.destElev, au)
 	f.originMsg, f.destMsg = om, dm
 	var weight float64
 	if t := strings.TrimSpace(f.weight); t != "" {

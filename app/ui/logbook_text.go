@@ -26,13 +26,13 @@ func vaultMessage(err error) string {
 	case errors.Is(err, logbook.ErrUnlock):
 		return "Wrong passphrase, or the vault is damaged. Nothing was changed."
 	case errors.As(err, &pe):
-		return passphraseMessage(pe)
+		return lbPassphraseMessage(pe)
 	case errors.Is(err, logbook.ErrQuota):
 		return "The device's storage is full: this entry was NOT saved and is still on screen. Free some space on the device, then save again."
 	case errors.Is(err, logbook.ErrLocked):
 		return "The logbook is locked. Unlock it, then save again; the entry is still on screen."
 	case errors.As(err, &fe):
-		return fieldMessage(fe)
+		return lbFieldMessage(fe)
 	case errors.Is(err, logbook.ErrBundle):
 		return "This file is not a logbook bundle this version can read. Nothing was written."
 	case errors.As(err, &de):
@@ -49,8 +49,8 @@ func vaultMessage(err error) string {
 	return "The logbook could not do this: " + err.Error() + ". If this was a new entry, it was NOT saved and is still on screen."
 }
 
-// passphraseMessage explains why a new passphrase was refused.
-func passphraseMessage(pe *logbook.PassphraseError) string {
+// lbPassphraseMessage explains why a new passphrase was refused.
+func lbPassphraseMessage(pe *logbook.PassphraseError) string {
 	switch {
 	case pe.Min > 0:
 		return fmt.Sprintf("The passphrase is too short: use at least %d characters (a few unrelated words work well).", pe.Min)
@@ -66,8 +66,8 @@ func passphraseMessage(pe *logbook.PassphraseError) string {
 	return "This passphrase is refused (" + pe.Reason + "). Choose another."
 }
 
-// fieldLabels names the vault's entry fields as the screen labels them.
-var fieldLabels = map[string]string{
+// lbFieldLabels names the vault's entry fields as the screen labels them.
+var lbFieldLabels = map[string]string{
 	"open.vehicle":                 "Vehicle or aircraft",
 	"open.crew":                    "Crew initials",
 	"open.origin.name":             "Origin",
@@ -92,11 +92,11 @@ var fieldLabels = map[string]string{
 	"reason":                       "Reason for the correction",
 }
 
-func fieldMessage(fe *logbook.FieldError) string {
-	label := fieldLabels[fe.Field]
+func lbFieldMessage(fe *logbook.FieldError) string {
+	label := lbFieldLabels[fe.Field]
 	if label == "" {
 		if i := strings.IndexByte(fe.Field, '['); i > 0 {
-			label = fieldLabels[fe.Field[:i]]
+			label = lbFieldLabels[fe.Field[:i]]
 		}
 	}
 	if label == "" {
@@ -105,7 +105,7 @@ func fieldMessage(fe *logbook.FieldError) string {
 	return fmt.Sprintf("%s: not saved. Allowed: %s.", label, fe.Allowed)
 }
 
-func unavailableMessage(err error) string {
+func lbUnavailableMessage(err error) string {
 	if errors.Is(err, idb.ErrUnavailable) {
 		return "This browser offers no IndexedDB storage here (a private window, or storage turned off). Use a normal window to keep a logbook."
 	}
@@ -115,26 +115,26 @@ func unavailableMessage(err error) string {
 	return "Storage could not be opened: " + err.Error() + "."
 }
 
-// clock formats a time for the timeline: local time with its zone.
-func clock(t time.Time) string { return t.Local().Format("15:04:05") }
+// lbClock formats a time for the timeline: local time with its zone.
+func lbClock(t time.Time) string { return t.Local().Format("15:04:05") }
 
-// dayAndClock formats a time for the list.
-func dayAndClock(t time.Time) string {
+// lbDayAndClock formats a time for the list.
+func lbDayAndClock(t time.Time) string {
 	if t.IsZero() {
 		return "—"
 	}
 	return t.Local().Format("2006-01-02 15:04")
 }
 
-// bytesText gives a byte count in MB with one decimal (MB = 10^6 bytes,
+// lbBytesText gives a byte count in MB with one decimal (MB = 10^6 bytes,
 // as browsers report storage).
-func bytesText(n int64) string {
+func lbBytesText(n int64) string {
 	return fmt.Sprintf("%.1f MB", float64(n)/1e6)
 }
 
-// withUnit appends unit to a bare number, so "1800" typed under a psi
+// lbWithUnit appends unit to a bare number, so "1800" typed under a psi
 // display is read as "1800 psi"; a text with its own unit keeps it.
-func withUnit(text, unit string) string {
+func lbWithUnit(text, unit string) string {
 	t := strings.TrimSpace(text)
 	if t == "" {
 		return t
@@ -147,29 +147,29 @@ func withUnit(text, unit string) string {
 	return t + " " + unit
 }
 
-// pressureText formats a pressure in the display unit.
-func pressureText(p physio.Pressure, unit string) string {
+// lbPressureText formats a pressure in the display unit.
+func lbPressureText(p physio.Pressure, unit string) string {
 	if unit == UnitBar {
 		return fmt.Sprintf("%.1f bar", p.Bar())
 	}
 	return fmt.Sprintf("%.0f psi", p.Psi())
 }
 
-// gasText formats a gas partial pressure in the display unit.
-func gasText(p physio.Pressure, unit string) string {
+// lbGasText formats a gas partial pressure in the display unit.
+func lbGasText(p physio.Pressure, unit string) string {
 	if unit == UnitKPa {
 		return fmt.Sprintf("%.1f kPa", p.Kilopascals())
 	}
 	return fmt.Sprintf("%.0f mmHg", p.MmHg())
 }
 
-// altitudeText formats an altitude in the display unit.
-func altitudeText(a physio.Altitude, unit string) string {
+// lbAltitudeText formats an altitude in the display unit.
+func lbAltitudeText(a physio.Altitude, unit string) string {
 	if unit == UnitM {
 		return fmt.Sprintf("%.0f m", a.Metres())
 	}
 	return fmt.Sprintf("%.0f ft", a.Feet())
 }
 
-// errNoFile: no file was chosen in a file input.
-var errNoFile = errors.New("ui: no file chosen")
+// lbErrNoFile: no file was chosen in a file input.
+var lbErrNoFile = errors.New("ui: no file chosen")

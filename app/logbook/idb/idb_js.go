@@ -9,9 +9,6 @@ import (
 	"alvea/app/logbook"
 )
 
-// DBName is the IndexedDB database the vault lives in.
-const DBName = "alvea-logbook"
-
 const (
 	dbVersion  = 1
 	storeMeta  = "meta"
