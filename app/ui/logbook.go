@@ -233,7 +233,7 @@ func (l *logbookScreen) renderPhase() app.UI {
 	case phaseUnavailable:
 		return app.Div().Class("alv-card").Body(
 			app.H2().Class("alv-card-title").Text("The logbook cannot be kept on this device"),
-			app.P().Text(lbUnavailableMessage(l.phaseErr)),
+			app.P().Text(unavailableMessage(l.phaseErr)),
 		)
 	case phaseEmpty:
 		return l.renderEmpty()

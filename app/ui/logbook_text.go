@@ -105,7 +105,7 @@ func lbFieldMessage(fe *logbook.FieldError) string {
 	return fmt.Sprintf("%s: not saved. Allowed: %s.", label, fe.Allowed)
 }
 
-func lbUnavailableMessage(err error) string {
+func unavailableMessage(err error) string {
 	if errors.Is(err, idb.ErrUnavailable) {
 		return "This browser offers no IndexedDB storage here (a private window, or storage turned off). Use a normal window to keep a logbook."
 	}

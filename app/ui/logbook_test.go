@@ -1,0 +1,391 @@
+package ui
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"alvea/app/logbook"
+	"alvea/physio"
+)
+
+// Passphrases of these tests are invented; they pass the vault's rules.
+const uiTestPass = "otter under the old stone bridge"
+
+// testSession is a vault session on a memory store, with the OWASP minimum
+// Argon2id settings (m = 19 MiB, t = 2, p = 1) so tests stay quick.
+func testSession(store logbook.Store) *vaultSession {
+	return newVaultSession(func(context.Context) (logbook.Store, error) { return store, nil }, logbook.MinimumKDF)
+}
+
+// mountLogbook loads the screen in go-app's test engine and runs its
+// OnMount with the context go-app gives it (natively the engine does not
+// call OnMount), then waits for it to open its store.
+func mountLogbook(t *testing.T, s *vaultSession) (*logbookScreen, app.TestEngine) {
+	t.Helper()
+	l := newLogbookWith(s)
+	p, e := mount(t, l)
+	l.OnMount(p.ctx)
+	e.ConsumeAll()
+	return l, e
+}
+
+var noEvent = app.Event{Value: app.Undefined()}
+
+func lbHTML(l *logbookScreen) string { return app.HTMLString(l.Render()) }
+
+func TestLogbookCreateRefusesWeakAndMismatchedPassphrases(t *testing.T) {
+	l, e := mountLogbook(t, testSession(logbook.NewMemStore()))
+	if l.phase != phaseEmpty || !strings.Contains(lbHTML(l), "Create the logbook") {
+		t.Fatalf("an empty store shows phase %v:\n%s", l.phase, lbHTML(l))
+	}
+	// Each refusal of the vault's rules (RECORD-MODEL.md, Vault) gets its
+	// own sentence, not the generic one.
+	for _, c := range []struct{ pass, want string }{
+		{"short one", "at least 10 characters"},
+		{"aaaaaaaaaaaa", "repeats one character"},
+		{"qwertyuiop", "keyboard or alphabet run"},
+		{"2024-12-31!!", "only digits or punctuation"},
+		{"password123", "commonest passwords"},
+	} {
+		l.access = accessForm{pass: c.pass, again: c.pass}
+		l.create(l.mctx, noEvent)
+		e.ConsumeAll()
+		if !strings.Contains(l.access.createMessage, c.want) {
+			t.Errorf("passphrase %q: message %q, want it to say %q", c.pass, l.access.createMessage, c.want)
+		}
+		if l.phase != phaseEmpty {
+			t.Fatalf("passphrase %q created a vault", c.pass)
+		}
+	}
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass + " "}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
+	if !strings.Contains(l.access.againMessage, "differ") || l.phase != phaseEmpty {
+		t.Errorf("mismatched passphrases: message %q, phase %v", l.access.againMessage, l.phase)
+	}
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.phase != phaseUnlocked || l.access.pass != "" {
+		t.Fatalf("a good passphrase: phase %v, passphrase kept in the form: %v", l.phase, l.access.pass != "")
+	}
+	if !strings.Contains(lbHTML(l), "No transport yet") {
+		t.Errorf("the new logbook does not show its empty list:\n%s", lbHTML(l))
+	}
+}
+
+// openTestTransport creates a vault and starts a transport through the
+// screen's start form.
+func openTestTransport(t *testing.T, l *logbookScreen, e app.TestEngine) {
+	t.Helper()
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
+	l.view = viewStart
+	l.start = lbStartFormFor("Rotor wing", "Mesa clinic", "Bay hospital")
+	l.startTransport(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.view != viewRecord || l.record.transport == nil {
+		t.Fatalf("start transport: view %q, problem %q", l.view, l.problem)
+	}
+}
+
+func lbStartFormFor(vehicle, origin, dest string) startForm {
+	return startForm{vehicle: vehicle, crew: "ab cd", origin: origin, originElev: "6000", dest: dest, destElev: "0",
+		age: string(logbook.AgeAdult), sex: string(logbook.SexFemale), weight: "70",
+		cylinders: []logbook.CylinderSpec{{Label: "E1", Size: "E"}}}
+}
+
+func TestLogbookStartRecordAndCorrect(t *testing.T) {
+	store := logbook.NewMemStore()
+	s := testSession(store)
+	l, e := mountLogbook(t, s)
+	openTestTransport(t, l, e)
+	tr := l.record.transport
+	// 6000 ft typed under the default feet display: 6000 × 0.3048 m
+	// (the international foot, NIST SP 811 appendix B) = 1828.8 m.
+	if got := tr.Opening.Origin.Elevation.Metres(); got < 1828.79 || got > 1828.81 {
+		t.Errorf("origin elevation = %v m, want 1828.8 m", got)
+	}
+	if tr.Opening.Patient.WeightKg != 70 || tr.Opening.Patient.AgeBand != logbook.AgeAdult || strings.Join(tr.Opening.Crew, " ") != "AB CD" {
+		t.Errorf("opening = %+v", tr.Opening)
+	}
+
+	l.record.gaugeCyl, l.record.gaugeText = "E1", "1800"
+	l.saveGauge(l.mctx, noEvent)
+	e.ConsumeAll()
+	l.record.obs = lbObsForm{spo2: "94", fio2: "0.3", rr: "16", etco2: "35"}
+	l.saveObs(l.mctx, noEvent)
+	e.ConsumeAll()
+	l.record.noteText = "calm flight"
+	l.saveNote(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.record.gaugeText != "" || l.record.noteText != "" {
+		t.Error("a saved entry's form was not cleared")
+	}
+	// Correct the gauge reading (R2): the original stays, the correction
+	// is a new record pointing at it.
+	l.record.amendSeq, l.record.amendReason, l.record.amendText = 2, "misread", "1700"
+	l.saveAmend(l.mctx, noEvent)
+	e.ConsumeAll()
+	page := lbHTML(l)
+	for _, want := range []string{"Gauge E1: 1800 psi", "SpO2 94 %", "FiO2 0.30", "RR 16/min", "EtCO2 35 mmHg",
+		"Note: calm flight", "Correction of R2 (misread): Gauge E1: 1700 psi", "corrected by R5"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the timeline lacks %q", want)
+		}
+	}
+	// What the screen shows is what the vault holds.
+	v, _ := s.Vault()
+	got, err := v.Transport(context.Background(), l.record.id)
+	if err != nil || len(got.History) != 5 || len(got.Amendments) != 1 {
+		t.Fatalf("vault holds %d records, %d amendments (err %v)", len(got.History), len(got.Amendments), err)
+	}
+
+	// Close: the entry forms go; the list flags the transport closed and
+	// corrected.
+	l.record.outcome = "handed over"
+	l.save(l.mctx, "close", func() (*logbook.Entry, error) {
+		return &logbook.Entry{Kind: logbook.KindClose, Close: &logbook.Closing{Outcome: l.record.outcome}}, nil
+	}, nil)
+	e.ConsumeAll()
+	if strings.Contains(lbHTML(l), "Save note") {
+		t.Error("a closed transport still offers entries")
+	}
+	l.view = viewList
+	l.refresh(l.mctx)
+	e.ConsumeAll()
+	page = lbHTML(l)
+	for _, want := range []string{"Mesa clinic → Bay hospital", "Rotor wing", "closed", "corrected", "1 of 1 transports"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the list lacks %q", want)
+		}
+	}
+	l.list.search = "nowhere"
+	if page = lbHTML(l); !strings.Contains(page, "0 of 1 transports") {
+		t.Error("search did not filter the list")
+	}
+}
+
+// failingStore refuses appends as a full browser store does.
+type failingStore struct {
+	logbook.Store
+	fail bool
+}
+
+func (f *failingStore) Append(ctx context.Context, rec logbook.Sealed, head []byte) error {
+	if f.fail {
+		return fmt.Errorf("idb: abort: %w", logbook.ErrQuota)
+	}
+	return f.Store.Append(ctx, rec, head)
+}
+
+func TestLogbookRefusedWriteKeepsEntryOnScreen(t *testing.T) {
+	store := &failingStore{Store: logbook.NewMemStore()}
+	l, e := mountLogbook(t, testSession(store))
+	openTestTransport(t, l, e)
+	store.fail = true
+	l.record.noteText = "entry that cannot be stored"
+	l.saveNote(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.record.noteText != "entry that cannot be stored" {
+		t.Errorf("the unsaved note left its form: %q", l.record.noteText)
+	}
+	if !strings.Contains(l.problem, "storage is full") || !strings.Contains(l.problem, "NOT saved") {
+		t.Errorf("problem = %q", l.problem)
+	}
+	page := lbHTML(l)
+	if !strings.Contains(page, "Not saved: note") || strings.Contains(page, "Note: entry that cannot be stored") {
+		t.Error("the screen shows an unsaved entry as saved, or does not say it is unsaved")
+	}
+	// Space again: the same entry saves.
+	store.fail = false
+	l.saveNote(l.mctx, noEvent)
+	e.ConsumeAll()
+	if !strings.Contains(lbHTML(l), "Note: entry that cannot be stored") || l.record.pending != "" {
+		t.Errorf("the retried note is not shown saved (problem %q)", l.problem)
+	}
+}
+
+func TestLogbookWrongPassphraseAndLock(t *testing.T) {
+	store := logbook.NewMemStore()
+	s := testSession(store)
+	l, e := mountLogbook(t, s)
+	openTestTransport(t, l, e)
+	l.lockNow(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.phase != phaseLocked || l.list.listing != nil || l.record.transport != nil {
+		t.Fatal("lock kept decrypted content on the screen")
+	}
+	if page := lbHTML(l); strings.Contains(page, "Mesa clinic") || !strings.Contains(page, "Unlock the logbook") {
+		t.Errorf("the locked screen shows:\n%s", page)
+	}
+	header, head, _ := store.Meta(context.Background())
+	l.access.unlock = "not the passphrase at all"
+	l.unlock(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.phase != phaseLocked || l.problem != "Wrong passphrase, or the vault is damaged. Nothing was changed." {
+		t.Errorf("wrong passphrase: phase %v, problem %q", l.phase, l.problem)
+	}
+	h2, hd2, _ := store.Meta(context.Background())
+	if string(h2) != string(header) || string(hd2) != string(head) {
+		t.Error("a wrong passphrase changed the stored header or head")
+	}
+	l.access.unlock = uiTestPass
+	l.unlock(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.phase != phaseUnlocked || !strings.Contains(lbHTML(l), "Mesa clinic") {
+		t.Errorf("unlock: phase %v, problem %q", l.phase, l.problem)
+	}
+}
+
+func TestVaultSessionIdleLock(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	if err := s.Create(context.Background(), uiTestPass); err != nil {
+		t.Fatal(err)
+	}
+	locked := make(chan struct{}, 1)
+	s.Subscribe(func() {
+		if p, _ := s.Phase(); p == phaseLocked {
+			select {
+			case locked <- struct{}{}:
+			default:
+			}
+		}
+	})
+	v, _ := s.Vault()
+	// Not idle yet at the default time; idle after it (DefaultIdleLock,
+	// 5 minutes, RECORD-MODEL.md).
+	if v.LockIfIdle(time.Now().Add(logbook.DefaultIdleLock - time.Minute)) {
+		t.Fatal("locked before the idle time")
+	}
+	if !v.LockIfIdle(time.Now().Add(logbook.DefaultIdleLock + time.Second)) {
+		t.Fatal("not locked after the idle time")
+	}
+	<-locked
+	if _, err := s.Vault(); !errors.Is(err, logbook.ErrLocked) {
+		t.Errorf("after the idle lock the session still gives the vault (err %v)", err)
+	}
+}
+
+func TestLogbookImportVerifiesFirst(t *testing.T) {
+	// A bundle from another vault.
+	src, err := logbook.Create(context.Background(), logbook.NewMemStore(), uiTestPass, logbook.MinimumKDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	id := logbook.NewTransportID(time.Now())
+	if _, err := src.Append(context.Background(), &logbook.Entry{Transport: id, Kind: logbook.KindOpen, At: time.Now(),
+		Open: &logbook.Opening{Vehicle: "Boat", Origin: logbook.Place{Name: "Isle"}, Destination: logbook.Place{Name: "Port"}}}); err != nil {
+		t.Fatal(err)
+	}
+	var bundle strings.Builder
+	if err := src.Export(context.Background(), &bundle); err != nil {
+		t.Fatal(err)
+	}
+	data := []byte(bundle.String())
+
+	store := logbook.NewMemStore()
+	l, e := mountLogbook(t, testSession(store))
+	old := lbReadFile
+	defer func() { lbReadFile = old }()
+	// A changed byte: refused, nothing written.
+	bad := append([]byte(nil), data...)
+	bad[len(bad)-40] ^= 0x80
+	lbReadFile = func(context.Context, string) ([]byte, error) { return bad, nil }
+	l.access.importPass = uiTestPass
+	l.importBundle(l.mctx, noEvent)
+	e.ConsumeAll()
+	if !strings.Contains(l.problem, "Nothing was written") {
+		t.Errorf("changed bundle: problem %q", l.problem)
+	}
+	if _, _, err := store.Meta(context.Background()); !errors.Is(err, logbook.ErrNoVault) {
+		t.Fatalf("a refused bundle wrote to the store (%v)", err)
+	}
+	lbReadFile = func(context.Context, string) ([]byte, error) { return data, nil }
+	l.access.importPass = uiTestPass
+	l.importBundle(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.phase != phaseUnlocked || !strings.Contains(lbHTML(l), "Isle → Port") {
+		t.Errorf("import: phase %v, problem %q", l.phase, l.problem)
+	}
+}
+
+func TestLbWithUnit(t *testing.T) {
+	for _, c := range []struct{ in, unit, want string }{
+		{"1800", "psi", "1800 psi"},
+		{" 124 ", "bar", "124 bar"},
+		{"124 bar", "psi", "124 bar"},
+		{"40%", "%", "40%"},
+		{"", "psi", ""},
+	} {
+		if got := lbWithUnit(c.in, c.unit); got != c.want {
+			t.Errorf("lbWithUnit(%q, %q) = %q, want %q", c.in, c.unit, got, c.want)
+		}
+	}
+}
+
+func TestLbCylindersFromPlan(t *testing.T) {
+	two, wc := 2, 10.0
+	doc := &physio.PlanDocument{Supply: []physio.PlanSupply{
+		{Size: "E", Count: &two},
+		{WaterCapacityL: &wc},
+	}}
+	got := lbCylindersFromPlan(doc)
+	var labels []string
+	for _, c := range got {
+		labels = append(labels, c.Label)
+	}
+	if strings.Join(labels, ",") != "E1,E2,10L1" || got[0].Size != "E" || got[2].WaterCapacity.Litres() != 10 {
+		t.Errorf("cylinders = %+v", got)
+	}
+}
+
+// The Brief's patient block never reaches plain storage through the
+// session draft store; it is held in memory and dropped at lock.
+func TestSessionDraftStoreKeepsPatientOutOfPlainStorage(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	l, e := mountLogbook(t, s)
+	_ = e
+	ctx := l.mctx
+	// A block an earlier version left in localStorage moves into memory.
+	old := NewBriefDraft()
+	old.Patient.SpO2 = Entry{T: "88"}
+	if err := (localDraftStore{}).Save(ctx, old); err != nil {
+		t.Fatal(err)
+	}
+	ds := draftStoreFor(s)
+	d, found, err := ds.Load(ctx)
+	if err != nil || !found || d.Patient.SpO2.T != "88" {
+		t.Fatalf("load: %+v, %v, %v", d.Patient, found, err)
+	}
+	var p storedPatient
+	if err := ctx.LocalStorage().Get(draftPatientKey, &p); err == nil && p.Patient.SpO2.T != "" {
+		t.Error("the old plain patient block was left in localStorage")
+	}
+	d.Patient.PaO2 = Entry{T: "55", U: "mmHg"}
+	if err := ds.Save(ctx, d); err != nil {
+		t.Fatal(err)
+	}
+	p = storedPatient{}
+	ctx.LocalStorage().Get(draftPatientKey, &p)
+	if p.Patient.PaO2.T != "" || p.Patient.SpO2.T != "" {
+		t.Errorf("patient values in plain storage: %+v", p.Patient)
+	}
+	if d2, _, _ := ds.Load(ctx); d2.Patient.PaO2.T != "55" {
+		t.Error("the patient block was not kept in memory")
+	}
+	if err := s.Create(context.Background(), uiTestPass); err != nil {
+		t.Fatal(err)
+	}
+	s.Lock()
+	if d3, _, _ := ds.Load(ctx); d3.Patient.PaO2.T != "" {
+		t.Error("the patient block survived the lock")
+	}
+}
