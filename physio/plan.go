@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 
 	"github.com/shopspring/decimal"
 )
@@ -587,9 +588,7 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 	case !lr.FiO2Possible:
 		c.warn(WarnFiO2Unreachable, SeverityNoGo, i, "%s: FiO2 %s would be needed to hold the ground state; even FiO2 1.0 cannot", where, lr.FiO2Needed)
 	case !lr.Delivers:
-		for _, s := range SetUpsFor(Fraction(lr.FiO2Needed.InexactFloat64())) {
-			lr.Options = append(lr.Options, planOption(s))
-		}
+		lr.Options = planOptions(o, lr.FiO2Needed)
 		c.warn(WarnSetUpBelowNeed, SeverityNoGo, i, "%s: %s may deliver FiO2 %s, below the %s needed to hold the ground state; %d option(s) listed",
 			where, o.Device, lr.FiO2DeliveredLow, lr.FiO2Needed, len(lr.Options))
 	}
@@ -605,6 +604,91 @@ func (c *planComputer) ventDefault(leg int, key string, p *float64) float64 {
 	}
 	c.assume(fmt.Sprintf("legs[%d].oxygen.%s", leg, key), "0", "not given: taken as 0 L/min")
 	return 0
+}
+
+// planOptions lists the set-ups that deliver needed by the same rule a leg
+// is judged by (the low end of the FiO2 range, rounded down, at or above
+// the need, rounded up), so that no option would itself fall short. Where
+// the leg's device has its FiO2 set on it (ventilator, blender, high-flow),
+// the first option is that device with only its FiO2 raised. A ventilated
+// patient gets only that option: masks and cannulas are no alternative to
+// the ventilator. The others, sorted by oxygen flow: each low-flow device
+// at the lowest whole L/min whose range starts at or above the need (BTS
+// 2017 ranges, DeviceFiO2), the lowest Venturi setting at or above the need
+// at its minimum flow, and high-flow at 30 and 60 L/min total set to the
+// need.
+func planOptions(o *PlanOxygen, needed Number) []PlanOption {
+	n := needed.InexactFloat64()
+	out := []PlanOption{}
+	var sameTotal float64
+	switch o.Device {
+	case Ventilator:
+		ve, bias, leak, drive := *o.MinuteVolumeLpm, planOr0(o.BiasFlowLpm), planOr0(o.LeakLpm), planOr0(o.DriveGasLpm)
+		f, err := VentilatorOxygen(o.Drive, Flow(ve), Flow(bias), Flow(leak), Flow(drive), Fraction(n))
+		if err == nil {
+			op := PlanOption{Device: Ventilator, OxygenLpm: num(float64(f), 1, RoundUp), TotalLpm: num(ve+bias+leak, 1, RoundNearest),
+				FiO2Low: needed, FiO2High: needed}
+			op.Label = fmt.Sprintf("option: ventilator FiO2 raised to %s, other settings unchanged: %s L/min oxygen (%s drive)", needed, op.OxygenLpm, o.Drive)
+			out = append(out, op)
+		}
+		return out
+	case Blender, HighFlow:
+		sameTotal = *o.FlowLpm
+		var f Flow
+		var err error
+		if o.Device == Blender {
+			f, err = OxygenShareOfBlend(Flow(sameTotal), Fraction(n))
+		} else {
+			f, err = HighFlowOxygen(Flow(sameTotal), Fraction(n))
+		}
+		if err == nil {
+			op := PlanOption{Device: o.Device, OxygenLpm: num(float64(f), 1, RoundUp), TotalLpm: num(sameTotal, 1, RoundNearest),
+				FiO2Low: needed, FiO2High: needed}
+			op.Label = fmt.Sprintf("option: %s FiO2 raised to %s at the same %s L/min total: %s L/min oxygen", o.Device, needed, op.TotalLpm, op.OxygenLpm)
+			out = append(out, op)
+		}
+	}
+	var others []SetUp
+	for _, d := range []Device{NasalCannula, SimpleMask, NonRebreather} {
+		lo, hi, _ := DeviceFlowRange(d)
+		for f := float64(lo); f <= float64(hi); f++ {
+			r, err := DeviceFiO2(d, Flow(f))
+			if err == nil && num(float64(r.Low), 2, RoundDown).Cmp(needed.Decimal) >= 0 {
+				others = append(others, SetUp{Device: d, Flow: Flow(f), FiO2: r, TotalFlow: Flow(f)})
+				break
+			}
+		}
+	}
+	for _, v := range VenturiSettings {
+		if num(float64(v), 2, RoundDown).Cmp(needed.Decimal) >= 0 {
+			if min, err := VenturiMinimumFlow(v); err == nil {
+				if total, err := VenturiTotalFlow(min, v); err == nil {
+					others = append(others, SetUp{Device: Venturi, Flow: min, FiO2: FiO2Range{v, v}, TotalFlow: total})
+				}
+			}
+			break
+		}
+	}
+	for _, total := range []Flow{30, HighFlowMaxTotal} {
+		if o.Device == HighFlow && math.Abs(float64(total)-sameTotal) < 1e-9 {
+			continue // already offered first
+		}
+		if f, err := HighFlowOxygen(total, Fraction(n)); err == nil {
+			others = append(others, SetUp{Device: HighFlow, Flow: f, FiO2: FiO2Range{Fraction(n), Fraction(n)}, TotalFlow: total})
+		}
+	}
+	sort.SliceStable(others, func(i, j int) bool { return others[i].Flow < others[j].Flow })
+	for _, s := range others {
+		out = append(out, planOption(s))
+	}
+	return out
+}
+
+func planOr0(p *float64) float64 {
+	if p == nil {
+		return 0
+	}
+	return *p
 }
 
 func planOption(s SetUp) PlanOption {
@@ -675,6 +759,8 @@ func (c *planComputer) limits() {
 		c.warn(WarnFiO2Unreachable, SeverityNoGo, -1, "%s", msg)
 	}
 
+	c.unplannedFields()
+
 	limit := num(CabinAltitudeLimit.Feet(), 0, RoundNearest)
 	cabinWarned, fieldWarned := false, map[string]bool{}
 	for i, l := range r.Legs {
@@ -689,6 +775,52 @@ func (c *planComputer) limits() {
 			fieldWarned[l.Where] = true
 			c.warn(WarnFieldAbove8000Ft, SeverityCaution, i, "the %s field at %s ft is above 8000 ft", l.Where, l.AltitudeFt)
 		}
+	}
+}
+
+// unplannedFields warns when the origin or destination field has no leg of
+// its own and lies above every planned leg: the patient is on the ground
+// there, before the first leg or after the last, so the highest leg is not
+// the highest exposure. The field where the ground state was measured is
+// skipped (the ground FiO2 holds there by definition).
+func (c *planComputer) unplannedFields() {
+	r := c.res
+	highest := c.legAlt[r.HighestLeg]
+	for _, f := range []struct {
+		where string
+		alt   Altitude
+	}{{WhereOrigin, c.origin}, {WhereDestination, c.destination}} {
+		if f.where == r.Ground.MeasuredAt || !(f.alt > highest) {
+			continue
+		}
+		planned := false
+		for _, l := range c.doc.Legs {
+			if l.Where == f.where {
+				planned = true
+			}
+		}
+		if planned {
+			continue
+		}
+		pb := c.pressure(f.where+" field pressure", f.alt)
+		if c.err != nil {
+			return
+		}
+		need, err := FiO2ToMatch(c.groundFiO2, c.groundPB, pb, c.ph2o)
+		if err != nil && !errors.Is(err, ErrImpossible) {
+			c.stepErr(f.where+" field FiO2 needed", err)
+			return
+		}
+		needed := num(float64(need), 2, RoundUp)
+		ft := num(f.alt.Feet(), 0, RoundUp)
+		if err != nil || needed.Cmp(decimal.NewFromInt(1)) > 0 {
+			r.FiO2Possible = false
+			c.warn(WarnFiO2Unreachable, SeverityNoGo, -1, "the %s field (%s ft) has no leg in the plan and is higher than every leg: FiO2 %s would be needed there to hold the ground state; even FiO2 1.0 cannot",
+				f.where, ft, needed)
+			continue
+		}
+		c.warn(WarnFieldAboveLegs, SeverityCaution, -1, "the %s field (%s ft) has no leg in the plan and is higher than every leg: FiO2 %s is needed there to hold the ground state; add a %s leg with its set-up",
+			f.where, ft, needed, f.where)
 	}
 }
 
@@ -724,6 +856,10 @@ func (c *planComputer) oxygen() {
 	r.ReserveMinutes = num(reserveMin, 0, RoundNearest)
 	r.ResidualPsi = num(policy.Residual.Psi(), 0, RoundNearest)
 	r.ResidualBar = num(policy.Residual.Bar(), 1, RoundNearest)
+	residualText := r.ResidualPsi.String() + " psi"
+	if pol.ResidualBar != nil {
+		residualText = r.ResidualBar.String() + " bar"
+	}
 
 	calc, maxFlow, lastFlow := 0.0, 0.0, 0.0
 	for i, lpm := range c.legLpm {
@@ -775,7 +911,7 @@ func (c *planComputer) oxygen() {
 			usable = append(usable, cr.UsableL.InexactFloat64())
 			total += cr.UsableL.InexactFloat64()
 			if u <= 0 {
-				c.warn(WarnCylinderAtResidual, SeverityCaution, -1, "%s is at or below the %s psi residual: no usable oxygen", name, r.ResidualPsi)
+				c.warn(WarnCylinderAtResidual, SeverityCaution, -1, "%s is at or below the %s residual: no usable oxygen", name, residualText)
 			}
 			r.Cylinders = append(r.Cylinders, cr)
 		}

@@ -69,6 +69,7 @@ const (
 	WarnSpO2BelowTarget    = "SPO2_BELOW_TARGET"         // caution: expected SpO2 below the policy's target
 	WarnCabinAbove8000Ft   = "CABIN_ABOVE_8000FT"        // caution: cabin above 8 000 ft (14 CFR 25.841(a))
 	WarnFieldAbove8000Ft   = "FIELD_ABOVE_8000FT"        // caution: a ground leg above 8 000 ft
+	WarnFieldAboveLegs     = "FIELD_ABOVE_LEGS"          // caution: a field with no leg of its own lies above every leg
 	WarnOutsideValidity    = "OUTSIDE_VALIDITY"          // caution: an input outside a method's validity
 	WarnSpO2PaO2Disagree   = "SPO2_PAO2_DISAGREE"        // caution: the SpO2 and PaO2 given disagree on the standard curve
 	WarnCylinderAtResidual = "CYLINDER_AT_RESIDUAL"      // caution: a cylinder already at or below the safe residual

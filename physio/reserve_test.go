@@ -38,7 +38,7 @@ func TestReserveRequired(t *testing.T) {
 			t.Errorf("%+v Required(%v L, %v L/min) = %v, %v; want %v L", tc.p, tc.need, tc.flow, got, err, tc.want)
 		}
 		// Shown to a person: litres needed rounded UP, never below the value.
-		shown, _ := Round(got.Litres()+0.01, 0, RoundUp)
+		shown, _ := Round(got.Litres(), 0, RoundUp)
 		if f, _ := shown.Float64(); f < got.Litres() {
 			t.Errorf("rounded need %v below %v", shown, got)
 		}

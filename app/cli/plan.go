@@ -251,7 +251,7 @@ func writeBrief(w io.Writer, doc *physio.PlanDocument, r *physio.PlanResult) {
 	fmt.Fprintf(w, "\nTrapped gas (origin %s ft to %s ft)\n", tg.FromAltitudeFt, tg.ToAltitudeFt)
 	fmt.Fprintf(w, "  volume ×%s; a %s mL air pocket becomes %s mL; a %s mL pneumothorax becomes %s mL;\n",
 		tg.Ratio, tg.CuffMl, tg.CuffAtAltitudeMl, tg.PneumothoraxMl, tg.PneumothoraxAltitudeMl)
-	fmt.Fprintf(w, "  a sealed rigid space rises up to %s cmH2O above the cabin\n", tg.RigidOverpressureCmH2O)
+	fmt.Fprintf(w, "  a sealed rigid space rises up to %s cmH2O above ambient\n", tg.RigidOverpressureCmH2O)
 	fmt.Fprintf(w, "  %s\n", tg.Caution)
 
 	if len(r.Assumptions) > 0 {
