@@ -2,9 +2,9 @@ package ui
 
 import (
 	"bytes"
-	htmlpkg "html"
 	"context"
 	"encoding/csv"
+	htmlpkg "html"
 	"os"
 	"path/filepath"
 	"strings"
@@ -421,4 +421,3 @@ func TestReviewHeldSteps(t *testing.T) {
 		}
 	}
 }
-
