@@ -7,7 +7,7 @@ import "time"
 type ReservePolicy struct {
 	Residual     Pressure      // safe residual left in each cylinder (gauge), 0–1 000 psi
 	Factor       float64       // multiplier on the calculated need (1 = none), 1–3
-	AddedMinutes time.Duration // extra time at the final flow, 0–240 min
+	AddedMinutes time.Duration // extra time at the flow passed to Required, 0–240 min
 }
 
 // DefaultReservePolicy keeps 200 psi in each cylinder and carries 1.5 times
@@ -42,7 +42,9 @@ func (p ReservePolicy) Validate() error {
 //
 //	required = need · Factor + AddedMinutes · flow
 //
-// where flow is the final (last-leg) oxygen flow. The residual is not added
+// where flow is the oxygen flow the added minutes are counted at: the
+// last leg's, or the highest leg's as ComputePlan uses (the cautious
+// choice: a delay may come on any leg). The residual is not added
 // here: it is kept out of each cylinder's usable litres (Cylinder.Usable).
 // need 0–1 000 000 L, flow 0–200 L/min, and a valid policy; otherwise a
 // *RangeError. Unrounded: oxygen needed, round UP.
