@@ -199,7 +199,7 @@ func writeBrief(w io.Writer, doc *physio.PlanDocument, r *physio.PlanResult) {
 		possible = "NO"
 	}
 	fmt.Fprintf(w, "  FiO2 needed at the highest leg: %s (reachable: %s)\n", r.FiO2Needed, possible)
-	fmt.Fprintf(w, "  FiO2 1.0 holds the ground state up to %s ft\n", r.MaxCabinAltitudeFt)
+	fmt.Fprintf(w, "  FiO2 1.0 holds the ground state up to a cabin altitude of %s ft\n", r.MaxCabinAltitudeFt)
 	if r.MaxCruiseAltitudeFt != nil {
 		ceiling := ""
 		if r.MaxCruiseAtCeiling {

@@ -2,6 +2,7 @@ package cli
 
 import (
 	"bytes"
+	"encoding/json"
 	"flag"
 	"os"
 	"path/filepath"
@@ -109,5 +110,65 @@ func TestPlanBadDocumentExit(t *testing.T) {
 	// A contradiction found while computing (PaO2 above PAO2) is also exit 2.
 	if code, _, errs := runPlan([]string{filepath.Join(planDir, "bad", "pao2-above-alveolar.json")}, ""); code != ExitUsage || !strings.Contains(errs, "patient.pao2_mmhg") {
 		t.Errorf("exit %d, %q", code, errs)
+	}
+}
+
+// The result document carries every key issue 3 requires, as JSON numbers
+// (or null where the quantity does not apply: max_cruise_altitude_ft on an
+// unpressurised aircraft), with warnings as {code, message}.
+func TestPlanJSONRequiredKeys(t *testing.T) {
+	top := []string{"cabin_altitude_ft", "highest_altitude_ft", "fio2_needed", "max_cabin_altitude_ft",
+		"oxygen_needed_l", "oxygen_usable_l", "oxygen_margin_l", "gas_expansion_ratio"}
+	leg := []string{"altitude_ft", "pressure_mmhg", "pao2_mmhg", "pao2_expected_mmhg", "spo2_expected_percent",
+		"fio2_needed", "oxygen_lpm", "oxygen_l"}
+	for _, tc := range []struct {
+		file        string
+		pressurised bool
+	}{{"fixed-wing-long.json", true}, {"rotor-mountain.json", false}} {
+		code, out, errs := runPlan([]string{"--json", filepath.Join(planDir, tc.file)}, "")
+		if code != ExitGo || errs != "" {
+			t.Fatalf("%s: exit %d, %s", tc.file, code, errs)
+		}
+		var doc map[string]any
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatalf("%s: %v", tc.file, err)
+		}
+		for _, k := range top {
+			if _, ok := doc[k].(float64); !ok {
+				t.Errorf("%s: %s = %v, want a number", tc.file, k, doc[k])
+			}
+		}
+		if _, ok := doc["fio2_possible"].(bool); !ok {
+			t.Errorf("%s: fio2_possible = %v, want true/false", tc.file, doc["fio2_possible"])
+		}
+		mc, present := doc["max_cruise_altitude_ft"]
+		if !present {
+			t.Errorf("%s: max_cruise_altitude_ft absent", tc.file)
+		}
+		if _, isNum := mc.(float64); isNum != tc.pressurised {
+			t.Errorf("%s: max_cruise_altitude_ft = %v; want a number only when pressurised", tc.file, mc)
+		}
+		legs, _ := doc["legs"].([]any)
+		if len(legs) == 0 {
+			t.Fatalf("%s: no legs", tc.file)
+		}
+		for i, l := range legs {
+			m, _ := l.(map[string]any)
+			for _, k := range leg {
+				if _, ok := m[k].(float64); !ok {
+					t.Errorf("%s: legs[%d].%s = %v, want a number", tc.file, i, k, m[k])
+				}
+			}
+		}
+		ws, ok := doc["warnings"].([]any)
+		if !ok {
+			t.Fatalf("%s: warnings = %v, want a list", tc.file, doc["warnings"])
+		}
+		for _, w := range ws {
+			m, _ := w.(map[string]any)
+			if c, _ := m["code"].(string); c == "" || m["message"] == "" {
+				t.Errorf("%s: warning %v lacks code or message", tc.file, w)
+			}
+		}
 	}
 }
