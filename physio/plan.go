@@ -52,6 +52,7 @@ const (
 	srcPilot    = "stated in the plan (route.cabin_altitude_ft)"
 	srcAlveolar = "alveolar gas equation, simplified form (Egan's Fundamentals of Respiratory Care)"
 	srcWater    = "Wagner W, Pruss A, J Phys Chem Ref Data 1993;22:783 (IAPWS saturation pressure)"
+	srcWater47  = "alveolar gas equation convention, 47 mmHg at 37 °C (common practice)"
 	srcInspired = "constant inspired PO2 (common practice in aeromedical transport)"
 	srcAA       = "constant a/A ratio (common practice in aeromedical planning)"
 	srcSev      = "Severinghaus JW, J Appl Physiol 1979;46:599-602, eq. 1"
@@ -80,8 +81,10 @@ const (
 // respiratory quotient and the a/A ratio are held at their ground values;
 // the alveolar gas equation is the simplified form (the cautious one); a
 // low-flow device is planned at the low end of its FiO2 range; water vapour
-// is the IAPWS saturation pressure at body temperature (47.1 mmHg at 37 °C);
-// reserve minutes are counted at the highest leg flow; cylinders are used in
+// is the conventional 47 mmHg of the alveolar gas equation at 37 °C, and
+// the IAPWS saturation pressure at any other body temperature (47 is that
+// curve's 47.12 rounded, so the step at 37 °C keeps it rising); reserve
+// minutes are counted at the highest leg flow; cylinders are used in
 // the order listed, each to its residual.
 //
 // Rounding is on the safe side and named in each Figure: oxygen needed,
@@ -335,8 +338,13 @@ func (c *planComputer) ground() {
 	c.assume("method", "constant PaCO2, RQ and a/A ratio", "PaCO2, RQ and the a/A ratio measured on the ground are held on every leg (no allowance for hyperventilation or a changing shunt)")
 
 	var err error
-	c.ph2o, err = WaterVapourPressure(Celsius(temp))
-	if err != nil {
+	ph2oFormula, ph2oSource := "saturation vapour pressure of water at body temperature", srcWater
+	if temp == DefaultPlanTemperatureC {
+		// The figure the method is taught and checked with (issue 2 §4,
+		// REFERENCES §3), and the one the other screens use.
+		c.ph2o = ConventionalWaterVapourPressure
+		ph2oFormula, ph2oSource = "water vapour at 37 °C, the conventional 47 mmHg", srcWater47
+	} else if c.ph2o, err = WaterVapourPressure(Celsius(temp)); err != nil {
 		c.stepErr("water vapour pressure", err)
 		return
 	}
@@ -349,7 +357,7 @@ func (c *planComputer) ground() {
 	g.PressureMmHg = c.figure(g.Explain, "pressure_mmhg", c.groundPB.MmHg(), 1, RoundNearest, "mmHg",
 		"P(H), standard atmosphere", srcISA, in("altitude", groundAlt.Feet(), "ft"))
 	g.WaterVapourMmHg = c.figure(g.Explain, "water_vapour_mmhg", c.ph2o.MmHg(), 2, RoundUp, "mmHg",
-		"saturation vapour pressure of water at body temperature", srcWater, in("temperature", temp, "°C"))
+		ph2oFormula, ph2oSource, in("temperature", temp, "°C"))
 	g.FiO2 = num(*pt.FiO2, 2, RoundNearest)
 	g.PaCO2MmHg = num(c.paco2.MmHg(), 1, RoundNearest)
 	g.RQ = num(c.rq, 2, RoundNearest)

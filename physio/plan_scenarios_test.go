@@ -13,9 +13,8 @@ import (
 //   - stdatmPH(8000 ft) = 564.514 mmHg
 //   - stdatmPH(9000 ft) = 543.258 mmHg
 //
-// Water vapour is the engine's IAPWS value at 37 °C, 47.12 mmHg (Wagner &
-// Pruß 1993; the conventional 47 mmHg is REFERENCES §3 [practice]); PaCO2
-// 40 mmHg and R 0.8 give PaCO2/R = 50 mmHg.
+// Water vapour at 37 °C is the conventional 47 mmHg (REFERENCES §3
+// [practice]); PaCO2 40 mmHg and R 0.8 give PaCO2/R = 50 mmHg.
 
 func planWarning(r *PlanResult, code string) *PlanWarning {
 	for i := range r.Warnings {
@@ -81,8 +80,8 @@ func TestPlanPressurisedMixedSupply(t *testing.T) {
 	if !hasWarning(r, WarnCabinAbove8000Ft) {
 		t.Error("want CABIN_ABOVE_8000FT for a 9 350 ft cabin")
 	}
-	// FiO2 at the cabin: 0.4·(632.356 − 47.12)/(P(9349.7 ft) − 47.12);
-	// P(9349.7 ft) = 535.98 mmHg (GNU units stdatmPH) → 0.47886 → 0.48.
+	// FiO2 at the cabin: 0.4·(632.356 − 47)/(P(9349.7 ft) − 47);
+	// P(9349.7 ft) = 535.98 mmHg (GNU units stdatmPH) → 0.47884 → 0.48.
 	exact(t, "fio2_needed", r.FiO2Needed, "0.48")
 	exact(t, "leg oxygen_lpm", r.Legs[1].OxygenLpm, "9.88")
 	exact(t, "leg oxygen_l", r.Legs[1].OxygenL, "297")
@@ -140,7 +139,7 @@ func TestPlanStatedCabinOverridesPressurised(t *testing.T) {
 	if r.Explain["cabin_altitude_ft"].Source != srcPilot || !r.Pressurised || r.MaxCruiseAltitudeFt == nil {
 		t.Errorf("stated cabin: source %q, pressurised %v", r.Explain["cabin_altitude_ft"].Source, r.Pressurised)
 	}
-	// FiO2 0.21·(760 − 47.12)/(609.05 − 47.12) = 0.2664 → 0.27; room air
+	// FiO2 0.21·(760 − 47)/(609.05 − 47) = 0.2664 → 0.27; room air
 	// falls short, so options are offered.
 	exact(t, "fio2_needed", r.FiO2Needed, "0.27")
 	if r.Legs[0].Delivers || len(r.Legs[0].Options) == 0 {
@@ -150,7 +149,7 @@ func TestPlanStatedCabinOverridesPressurised(t *testing.T) {
 
 // Ventilator, both drives [practice, REFERENCES §9], and a ventilated leg
 // that falls short. Ground FiO2 0.5 at sea level; stated 8 000 ft cabin:
-// FiO2 needed 0.5·(760 − 47.12)/(564.51 − 47.12) = 0.6889 → 0.69 (up).
+// FiO2 needed 0.5·(760 − 47)/(564.51 − 47) = 0.6889 → 0.69 (up).
 //   - blending at 0.5: (8 + 2)·(0.5 − 0.21)/0.79 = 3.6709 L/min; 60 min →
 //     220.25 → 221 L (up).
 //   - oxygen-driven at 0.6 with leak 1 and drive gas 1: (8 + 2 + 1)·0.6 + 1
@@ -247,7 +246,7 @@ func TestPlanOptionsSameDeviceFirst(t *testing.T) {
  "legs": [{"where": "cabin", "minutes": 15, "oxygen": {"device": "high_flow", "flow_lpm": 50, "fio2": 0.8}}],
  "patient": {"fio2": 0.8, "pao2_mmhg": 72, "paco2_mmhg": 36}, "supply": []}`)
 	l := r.Legs[0]
-	// 0.8·(760 − 47.12)/(P(400 ft) − 47.12), P(400 ft) = 749.08 mmHg
+	// 0.8·(760 − 47)/(P(400 ft) − 47), P(400 ft) = 749.08 mmHg
 	// (GNU units stdatmPH) → 0.8124 → 0.82.
 	exact(t, "need", l.FiO2Needed, "0.82")
 	if l.Delivers || len(l.Options) == 0 {
@@ -269,9 +268,9 @@ func TestPlanOptionsSameDeviceFirst(t *testing.T) {
 }
 
 // A destination field higher than every planned leg, with no leg of its
-// own, is flagged with the FiO2 it needs: 0.21·(760 − 47.12)/(543.26 −
-// 47.12) = 0.3017 → 0.31 at 9 000 ft. With a ground FiO2 of 0.8 it would
-// need 0.8·712.88/496.14 = 1.149: FiO2 1.0 cannot, a no-go.
+// own, is flagged with the FiO2 it needs: 0.21·(760 − 47)/(543.26 − 47)
+// = 0.3017 → 0.31 at 9 000 ft. With a ground FiO2 of 0.8 it would need
+// 0.8·713/496.26 = 1.149: FiO2 1.0 cannot, a no-go.
 func TestPlanUnplannedHigherField(t *testing.T) {
 	doc := `{"version": 1,
  "route": {"origin_elevation_ft": 0, "destination_elevation_ft": 9000, "cabin_altitude_ft": 6000},
@@ -291,8 +290,8 @@ func TestPlanUnplannedHigherField(t *testing.T) {
 	exact(t, "highest_altitude_ft", r.HighestAltitudeFt, "6000")
 
 	// Ground FiO2 0.8, a 3 000 ft cabin the high-flow set-up still holds
-	// (0.8·712.88/(681.12 − 47.12) = 0.8995 → 0.90, GNU units
-	// stdatmPH(3000 ft) = 681.12 mmHg); only the destination cannot.
+	// (0.8·713/(681.14 − 47) = 0.8995 → 0.90, GNU units
+	// stdatmPH(3000 ft) = 681.14 mmHg); only the destination cannot.
 	high := strings.NewReplacer("FIO2", "0.8", `"OX"`, `"high_flow", "flow_lpm": 40, "fio2": 0.9`,
 		`"pao2_mmhg": 75`, `"pao2_mmhg": 300`, `"cabin_altitude_ft": 6000`, `"cabin_altitude_ft": 3000`).Replace(doc)
 	r = mustPlan(t, high)

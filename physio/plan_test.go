@@ -57,11 +57,10 @@ func hasWarning(r *PlanResult, code string) bool {
 // one E cylinder at 2 000 psi. Check values (REFERENCES.md):
 //   - P(8 000 ft) = 564.51 mmHg [calc, U.S. Standard Atmosphere 1976; GNU
 //     units `stdatmPH(8000 ft)` → 564.51402].
-//   - FiO2 0.21 → 0.289 at 8 000 ft [calc, §4]; with the IAPWS 47.12 mmHg
-//     water vapour the engine gets 0.2893, shown rounded up: 0.29.
+//   - FiO2 0.21 → 0.289 at 8 000 ft [calc, §4] (0.2893 with PH2O 47 mmHg),
+//     shown rounded up: 0.29.
 //   - PAO2 at sea level on air 99.7 mmHg [pub-example, Egan's workbook];
-//     at 8 000 ft 58.7 mmHg [calc, §3] — ±0.2 for the 0.12 mmHg PH2O
-//     difference and round-down to 0.1.
+//     at 8 000 ft 58.7 mmHg [calc, §3] (58.68, shown rounded down to 58.6).
 //   - Boyle sea level → 8 000 ft ×1.346 [calc, §10], shown rounded up.
 //   - E cylinder, 2 000 psi, 200 psi residual: 504 L; at 10 L/min it
 //     reaches the residual at 50.4 min [calc, §7] → minute 50 (down).
@@ -121,7 +120,7 @@ func TestPlanSeaLevelTo8000ft(t *testing.T) {
 
 // Non-sea-level origin: 5 000 ft (632.36 mmHg [calc, REFERENCES §1; GNU
 // units stdatmPH(5000 ft) → 632.35638]) to an 8 000 ft cabin (564.51).
-// Hand-worked: FiO2 = 0.21·(632.36 − 47.12)/(564.51 − 47.12) = 0.2375 → 0.24
+// Hand-worked: FiO2 = 0.21·(632.36 − 47)/(564.51 − 47) = 0.2375 → 0.24
 // (up); Boyle 632.36/564.51 = 1.1202 → 1.121 (up).
 func TestPlanHighOrigin(t *testing.T) {
 	r := mustPlan(t, `{"version": 1,
@@ -139,13 +138,14 @@ func TestPlanHighOrigin(t *testing.T) {
 		t.Errorf("cannula 2 L/min should deliver 0.24, low end %s", r.Legs[1].FiO2DeliveredLow)
 	}
 	// The PaO2 at altitude follows the ground a/A ratio [practice, §4],
-	// hand-worked with PH2O 47.12 mmHg (IAPWS at 37 °C) and PaCO2/R = 50:
-	// ground PAO2 0.21·(632.36 − 47.12) − 50 = 72.90 mmHg, a/A = 70/72.90;
-	// cabin PAO2 at the cannula's low end 0.24·(564.51 − 47.12) − 50 =
-	// 74.17 mmHg; PaO2 = 70·74.17/72.90 = 71.22 mmHg, shown rounded down.
-	nearly(t, "cabin PAO2", r.Legs[1].PAO2MmHg, 74.17, 0.11)
-	nearly(t, "cabin expected PaO2", r.Legs[1].PaO2ExpectedMmHg, 71.22, 0.11)
-	if r.Legs[1].PaO2ExpectedMmHg.InexactFloat64() > 71.225 {
+	// hand-worked with PH2O 47 mmHg (REFERENCES §3 [practice]) and
+	// PaCO2/R = 50: ground PAO2 0.21·(632.356 − 47) − 50 = 72.925 mmHg,
+	// a/A = 70/72.925; cabin PAO2 at the cannula's low end
+	// 0.24·(564.514 − 47) − 50 = 74.203 mmHg; PaO2 = 70·74.203/72.925 =
+	// 71.227 mmHg, shown rounded down.
+	nearly(t, "cabin PAO2", r.Legs[1].PAO2MmHg, 74.2, 0.11)
+	nearly(t, "cabin expected PaO2", r.Legs[1].PaO2ExpectedMmHg, 71.2, 0.11)
+	if r.Legs[1].PaO2ExpectedMmHg.InexactFloat64() > 71.227 {
 		t.Error("expected PaO2 must round down")
 	}
 	// On room air at the origin the ground state is reproduced: PaO2 70.
@@ -155,7 +155,7 @@ func TestPlanHighOrigin(t *testing.T) {
 // High destination: sea level origin, stated 8 000 ft cabin, destination at
 // 10 000 ft (522.66 mmHg [calc, REFERENCES §1; GNU units → 522.65519]).
 // The destination is the highest exposure, not the cabin. Hand-worked:
-// FiO2 = 0.21·(760 − 47.12)/(522.66 − 47.12) = 0.3148 → 0.32;
+// FiO2 = 0.21·(760 − 47)/(522.66 − 47) = 0.3148 → 0.32;
 // Boyle 760/522.66 = 1.4541 → 1.455.
 func TestPlanHighDestination(t *testing.T) {
 	r := mustPlan(t, `{"version": 1,
@@ -188,7 +188,7 @@ func TestPlanHighDestination(t *testing.T) {
 
 // Return leg: the ground state measured at the 10 000 ft destination field
 // is the reference; descending to sea level needs less than 0.21:
-// 0.21·(522.66 − 47.12)/(760 − 47.12) = 0.1401 → 0.15 (up).
+// 0.21·(522.66 − 47)/(760 − 47) = 0.1401 → 0.15 (up).
 func TestPlanMeasuredAtDestination(t *testing.T) {
 	r := mustPlan(t, `{"version": 1,
  "route": {"origin_elevation_ft": 0, "destination_elevation_ft": 10000},
@@ -205,11 +205,12 @@ func TestPlanMeasuredAtDestination(t *testing.T) {
 	}
 }
 
-// FiO2 0.8 at sea level cannot be matched at 8 000 ft: 0.8·712.88/517.39 =
-// 1.102 → 1.11. The highest altitude where FiO2 1.0 holds it is where
-// PB = 47.12 + 0.8·(760 − 47.12) = 617.42 mmHg: GNU units
-// `~stdatmPH(617.42 mmHg)` → 5637.28 ft (external oracle), shown rounded
-// down. Pressurised at 50 000 ft with 9.234 psi the cabin is 8 000 ft
+// FiO2 0.8 at sea level cannot be matched at 8 000 ft: 0.8·713/517.51 =
+// 1.102 → 1.11 (PH2O 47 mmHg at 37 °C, REFERENCES §3 [practice]). The
+// highest altitude where FiO2 1.0 holds it is where PB = 47 + 0.8·(760 −
+// 47) = 617.4 mmHg: GNU units
+// `~stdatmPH(47 mmHg + 0.8*(stdatmPH(0 ft) - 47 mmHg))` → 5638.1426 ft
+// (external oracle), shown rounded down: 5638. Pressurised at 50 000 ft with 9.234 psi the cabin is 8 000 ft
 // (REFERENCES §2 [calc]; the McGraw-Hill dictionary's 9.25 psi [pub]).
 func TestPlanFiO2Unreachable(t *testing.T) {
 	r := mustPlan(t, `{"version": 1,
@@ -222,20 +223,17 @@ func TestPlanFiO2Unreachable(t *testing.T) {
 	if r.FiO2Possible || !hasWarning(r, WarnFiO2Unreachable) || r.Go {
 		t.Errorf("want FIO2_UNREACHABLE, no-go; got possible %v, %v", r.FiO2Possible, r.Warnings)
 	}
-	nearly(t, "max_cabin_altitude_ft", r.MaxCabinAltitudeFt, 5637, 1.5)
-	if r.MaxCabinAltitudeFt.InexactFloat64() > 5637.28 {
-		t.Error("max_cabin_altitude_ft must round down")
-	}
+	exact(t, "max_cabin_altitude_ft (5638.14 rounded down)", r.MaxCabinAltitudeFt, "5638")
 	if r.MaxCruiseAltitudeFt == nil {
 		t.Fatal("pressurised: max_cruise_altitude_ft missing")
 	}
 	// The cruise that keeps that cabin with 9.234 psi: ambient
-	// P(5637.10 ft) − 9.234 psi = 18 650.3 Pa, below P11, so the 1976
-	// isothermal layer gives H = 11 000 + (R*·T11/(g0·M0))·ln(22 632.06/18 650.3)
-	// = 12 227.1 m = 40 115.3 ft [calc, REFERENCES §1–2 formulas in double
+	// P(5638.15 ft) − 9.234 psi = 18 647.0 Pa, below P11, so the 1976
+	// isothermal layer gives H = 11 000 + (R*·T11/(g0·M0))·ln(22 632.06/18 647.0)
+	// = 12 228.2 m = 40 118.9 ft [calc, REFERENCES §1–2 formulas in double
 	// precision outside the project], shown rounded down.
-	if m := r.MaxCruiseAltitudeFt.InexactFloat64(); m != 40115 {
-		t.Errorf("max_cruise_altitude_ft = %v, want 40115 (40 115.3 rounded down)", m)
+	if m := r.MaxCruiseAltitudeFt.InexactFloat64(); m != 40118 {
+		t.Errorf("max_cruise_altitude_ft = %v, want 40118 (40 118.9 rounded down)", m)
 	}
 	// Blender at FiO2 1.0, 30 L/min: all oxygen, 30 L/min (share formula, REFERENCES §8).
 	exact(t, "oxygen_lpm", r.Legs[0].OxygenLpm, "30")
