@@ -349,3 +349,39 @@ func TestPlanCountAndResidualInBar(t *testing.T) {
 	// Supply reaches the residual after the transport: 30 + (780 − 180)/6 = 130.
 	exact(t, "supply_exhausted_minute", *r.SupplyExhaustedMin, "130")
 }
+
+// Ground state measured at a 6 000 ft destination (609.047 mmHg, GNU units
+// stdatmPH), on air with PaO2 60 mmHg, flown from sea level in a stated
+// 8 000 ft cabin (564.514 mmHg). Hand-worked with PH2O 47 and PaCO2/R 50:
+//   - ground PAO2 0.21·(609.047 − 47) − 50 = 68.03 mmHg; a/A = 60/68.03;
+//   - cabin FiO2 needed 0.21·562.047/517.514 = 0.2281 → 0.23; at the
+//     sea-level origin 0.21·562.047/713 = 0.1655 → 0.17 (both up);
+//   - cabin on a 2 L/min cannula (low end 0.24, BTS 2017 with Alvea's
+//     band): PAO2 0.24·517.514 − 50 = 74.20; PaO2 60·74.20/68.03 = 65.44;
+//   - FiO2 1.0 holds the ground state up to PB = 47 + 0.21·562.047 =
+//     165.03 mmHg, in the isothermal layer: 11 179.0 m = 36 676.5 ft
+//     [calc, REFERENCES §1 formula in double precision], shown rounded down.
+func TestPlanMeasuredAtDestinationWithFlight(t *testing.T) {
+	r := mustPlan(t, `{"version": 1,
+ "route": {"origin_elevation_ft": 0, "destination_elevation_ft": 6000, "cabin_altitude_ft": 8000},
+ "legs": [{"where": "origin", "minutes": 10, "oxygen": {"device": "room_air"}},
+          {"where": "cabin", "minutes": 60, "oxygen": {"device": "nasal_cannula", "flow_lpm": 2}},
+          {"where": "destination", "minutes": 10, "oxygen": {"device": "room_air"}}],
+ "patient": {"fio2": 0.21, "pao2_mmhg": 60, "paco2_mmhg": 40, "measured_at": "destination"},
+ "supply": [{"size": "D", "pressure_psi": 2000}]}`)
+	if r.Ground.MeasuredAt != WhereDestination {
+		t.Fatalf("measured_at %q", r.Ground.MeasuredAt)
+	}
+	nearly(t, "ground PAO2", r.Ground.AlveolarPO2MmHg, 68.0, 0.051)
+	exact(t, "cabin fio2_needed", r.Legs[1].FiO2Needed, "0.23")
+	exact(t, "origin fio2_needed", r.Legs[0].FiO2Needed, "0.17")
+	exact(t, "destination fio2_needed", r.Legs[2].FiO2Needed, "0.21")
+	exact(t, "fio2_needed (highest leg)", r.FiO2Needed, "0.23")
+	nearly(t, "cabin PAO2", r.Legs[1].PAO2MmHg, 74.2, 0.051)
+	nearly(t, "cabin expected PaO2", r.Legs[1].PaO2ExpectedMmHg, 65.4, 0.051)
+	exact(t, "max_cabin_altitude_ft", r.MaxCabinAltitudeFt, "36676")
+	nearly(t, "destination expected PaO2 (the ground state)", r.Legs[2].PaO2ExpectedMmHg, 60, 0.11)
+	if !r.Legs[1].Delivers {
+		t.Error("cannula 2 L/min (0.24) holds 0.23")
+	}
+}
