@@ -219,9 +219,13 @@ func (l *logbookScreen) Render() app.UI {
 				app.If(l.busy != "", func() app.UI { return app.Span().Class("lb-busy").Text(l.busy) }).
 					Else(func() app.UI { return app.Text(l.status) }),
 			),
-			app.If(l.problem != "", func() app.UI {
-				return app.P().ID("lb-problem").Class("alv-error lb-problem").Attr("role", "alert").Text(l.problem)
-			}),
+			// Always present, so that the forms after it keep their DOM
+			// (and a chosen file) when a message comes or goes.
+			app.Div().Class("lb-alerts").Body(
+				app.If(l.problem != "", func() app.UI {
+					return app.P().ID("lb-problem").Class("alv-error lb-problem").Attr("role", "alert").Text(l.problem)
+				}),
+			),
 			l.renderPhase(),
 		)
 }
