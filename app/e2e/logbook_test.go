@@ -117,6 +117,9 @@ func TestLogbookRecordReloadUnlock(t *testing.T) {
 	b.typeInto("#lb-gauge-p", "1800")
 	b.tap("#lb-gauge-go")
 	b.waitSeqs(3)
+	if v := b.value("#lb-gauge-p"); v != "" {
+		t.Errorf("the saved reading stays in its field: %q", v)
+	}
 	b.typeInto("#lb-obs-spo2", "93")
 	b.typeInto("#lb-obs-fio2", "0.4")
 	b.typeInto("#lb-obs-rr", "18")

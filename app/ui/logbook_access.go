@@ -123,6 +123,7 @@ func (l *logbookScreen) unlock(ctx app.Context, e app.Event) {
 		return l.session.Unlock(c, pass)
 	}, func(ctx app.Context, err error) {
 		l.access.unlock = ""
+		lbClearInputs("lb-pass")
 		if err != nil {
 			l.problem = vaultMessage(err)
 			return
@@ -143,6 +144,7 @@ func (l *logbookScreen) importBundle(ctx app.Context, e app.Event) {
 		return l.session.Import(c, data, pass)
 	}, func(ctx app.Context, err error) {
 		l.access.importPass = ""
+		lbClearInputs("lb-import-pass")
 		switch {
 		case errors.Is(err, lbErrNoFile):
 			l.problem = "Choose a bundle file first."

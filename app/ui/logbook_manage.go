@@ -127,11 +127,13 @@ func (l *logbookScreen) changePassphrase(ctx app.Context, e app.Event) {
 		return l.session.ChangePassphrase(c, cur, next)
 	}, func(ctx app.Context, err error) {
 		m.current = ""
+		lbClearInputs("lb-cur-pass")
 		if err != nil {
 			l.problem = vaultMessage(err)
 			return
 		}
 		m.next, m.again = "", ""
+		lbClearInputs("lb-next-pass", "lb-next-again")
 		l.status = "Passphrase changed. Use the new one from now on."
 	})
 }

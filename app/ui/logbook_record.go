@@ -262,7 +262,7 @@ func (l *logbookScreen) renderEntries() app.UI {
 				e.PreventDefault()
 				l.save(ctx, "event", func() (*logbook.Entry, error) {
 					return &logbook.Entry{Kind: logbook.KindEvent, Event: &logbook.Event{Type: logbook.EventOther, Text: strings.TrimSpace(r.otherText)}}, nil
-				}, func() { r.otherText = "" })
+				}, func() { r.otherText = ""; lbClearInputs("lb-other-text") })
 			}).Body(
 				textField("lb-other-text", "Other event", r.otherText, "", func(ctx app.Context, t string) { r.otherText = t }),
 				app.Button().Type("submit").ID("lb-other-go").Class("alv-button").Text("Save event"),
@@ -278,7 +278,7 @@ func (l *logbookScreen) renderEntries() app.UI {
 			app.H2().Class("alv-card-title").Text("Observations"),
 			app.Div().Class("lb-obs-grid").Body(
 				numberField("lb-obs-spo2", "SpO2", "%", r.obs.spo2, "", func(ctx app.Context, t string) { r.obs.spo2 = t }),
-				numberField("lb-obs-fio2", "FiO2", "0.21–1 or %", r.obs.fio2, "", func(ctx app.Context, t string) { r.obs.fio2 = t }),
+				numberField("lb-obs-fio2", "FiO2 (0.4 or 40 %)", "", r.obs.fio2, "", func(ctx app.Context, t string) { r.obs.fio2 = t }),
 				textField("lb-obs-device", "Device", r.obs.device, "", func(ctx app.Context, t string) { r.obs.device = t }),
 				numberField("lb-obs-flow", "O2 flow", "L/min", r.obs.flow, "", func(ctx app.Context, t string) { r.obs.flow = t }),
 				numberField("lb-obs-rr", "Resp. rate", "/min", r.obs.rr, "", func(ctx app.Context, t string) { r.obs.rr = t }),
@@ -310,7 +310,7 @@ func (l *logbookScreen) saveGauge(ctx app.Context, e app.Event) {
 			return nil, fmt.Errorf("Gauge reading: %s", err.Error())
 		}
 		return &logbook.Entry{Kind: logbook.KindGauge, Gauge: &logbook.GaugeReading{Cylinder: strings.TrimSpace(r.gaugeCyl), Pressure: p}}, nil
-	}, func() { r.gaugeText = "" })
+	}, func() { r.gaugeText = ""; lbClearInputs("lb-gauge-p") })
 }
 
 // lbReadObservation reads the observation form; empty fields stay absent.
@@ -369,7 +369,10 @@ func (l *logbookScreen) saveObs(ctx app.Context, e app.Event) {
 			return nil, err
 		}
 		return &logbook.Entry{Kind: logbook.KindObserve, Observe: o}, nil
-	}, func() { r.obs = lbObsForm{device: r.obs.device} })
+	}, func() {
+		r.obs = lbObsForm{device: r.obs.device}
+		lbClearInputs("lb-obs-spo2", "lb-obs-fio2", "lb-obs-flow", "lb-obs-rr", "lb-obs-etco2", "lb-obs-hr")
+	})
 }
 
 func (l *logbookScreen) saveNote(ctx app.Context, e app.Event) {
@@ -377,7 +380,7 @@ func (l *logbookScreen) saveNote(ctx app.Context, e app.Event) {
 	r := &l.record
 	l.save(ctx, "note", func() (*logbook.Entry, error) {
 		return &logbook.Entry{Kind: logbook.KindNote, Note: &logbook.Note{Text: strings.TrimSpace(r.noteText)}}, nil
-	}, func() { r.noteText = "" })
+	}, func() { r.noteText = ""; lbClearInputs("lb-note-text") })
 }
 
 func (l *logbookScreen) renderClose() app.UI {
@@ -386,7 +389,7 @@ func (l *logbookScreen) renderClose() app.UI {
 		e.PreventDefault()
 		l.save(ctx, "close", func() (*logbook.Entry, error) {
 			return &logbook.Entry{Kind: logbook.KindClose, Close: &logbook.Closing{Outcome: strings.TrimSpace(r.outcome)}}, nil
-		}, func() { r.outcome = "" })
+		}, func() { r.outcome = ""; lbClearInputs("lb-outcome") })
 	}).Body(
 		app.H2().Class("alv-card-title").Text("Close transport"),
 		textField("lb-outcome", "Outcome", r.outcome, "", func(ctx app.Context, t string) { r.outcome = t }),
@@ -585,5 +588,8 @@ func (l *logbookScreen) saveAmend(ctx app.Context, e app.Event) {
 			a.Gauge = &logbook.GaugeReading{Cylinder: target.Gauge.Cylinder, Pressure: p}
 		}
 		return a, nil
-	}, func() { r.amendSeq, r.amendReason, r.amendText, r.amendVoid = 0, "", "", false })
+	}, func() {
+		r.amendSeq, r.amendReason, r.amendText, r.amendVoid = 0, "", "", false
+		lbClearInputs("lb-amend-reason", "lb-amend-text")
+	})
 }

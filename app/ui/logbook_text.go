@@ -2,7 +2,9 @@ package ui
 
 import (
 	"errors"
+
 	"fmt"
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
 	"strings"
 	"time"
 
@@ -126,9 +128,12 @@ func lbDayAndClock(t time.Time) string {
 	return t.Local().Format("2006-01-02 15:04")
 }
 
-// lbBytesText gives a byte count in MB with one decimal (MB = 10^6 bytes,
-// as browsers report storage).
+// lbBytesText gives a byte count in MB or GB with one decimal (decimal
+// units, 1 MB = 10^6 bytes, as browsers report storage).
 func lbBytesText(n int64) string {
+	if n >= 1e9 {
+		return fmt.Sprintf("%.1f GB", float64(n)/1e9)
+	}
 	return fmt.Sprintf("%.1f MB", float64(n)/1e6)
 }
 
@@ -173,3 +178,15 @@ func lbAltitudeText(a physio.Altitude, unit string) string {
 
 // lbErrNoFile: no file was chosen in a file input.
 var lbErrNoFile = errors.New("ui: no file chosen")
+
+// lbClearInputs empties the inputs with these ids in the page. go-app does
+// not clear a field whose value goes back to "" once the person has typed
+// in it (an empty value attribute is dropped, not set), so a saved entry's
+// form is emptied here, and a passphrase field after each attempt.
+func lbClearInputs(ids ...string) {
+	for _, id := range ids {
+		if el := app.Window().GetElementByID(id); el.Truthy() {
+			el.Set("value", "")
+		}
+	}
+}
