@@ -4,8 +4,6 @@ import (
 	_ "embed"
 	"fmt"
 	"io/fs"
-	"net/http"
-	"os"
 	"path"
 	"path/filepath"
 	"sort"
@@ -57,9 +55,9 @@ var icons = app.Icon{
 // service worker precaches every file under root/web.
 func NewHandler(root string) (*app.Handler, error) {
 	web := filepath.Join(root, "web")
-	if _, err := os.Stat(filepath.Join(web, "app.wasm")); err != nil {
-		return nil, fmt.Errorf("server: %s is missing; build it first (make wasm): %w",
-			filepath.Join(web, "app.wasm"), err)
+	resources, err := NewResources(root)
+	if err != nil {
+		return nil, err
 	}
 	version, err := Version(root)
 	if err != nil {
@@ -79,8 +77,8 @@ func NewHandler(root string) (*app.Handler, error) {
 	}
 	cacheable := make([]string, 0, len(files))
 	for _, f := range files {
-		if f == "app.wasm" || strings.HasPrefix(f, "app.wasm.") {
-			continue // app.wasm is in go-app's own list; compressed copies are negotiated, not cached twice
+		if f == "app.wasm" {
+			continue // in go-app's own list
 		}
 		cacheable = append(cacheable, "/web/"+f)
 	}
@@ -98,32 +96,17 @@ func NewHandler(root string) (*app.Handler, error) {
 		Scripts:               []string{"/web/theme.js", "/web/alvea.js defer"},
 		CacheableResources:    cacheable,
 		RawHeaders:            []string{`<meta http-equiv="Content-Security-Policy" content="` + contentSecurityPolicy + `">`},
-		Resources:             dirResources{Handler: http.FileServer(http.Dir(root))},
+		Resources:             resources,
+		WasmContentLength:     resources.WasmContentLength(),
 		ServiceWorkerTemplate: workerTemplate,
 		Version:               version,
 	}, nil
 }
 
-// dirResources serves /web/... from a directory and leaves every URL as the
-// page sees it (/web/x). go-app's LocalDir puts its directory into the URLs,
-// which only works for the working directory.
-type dirResources struct{ http.Handler }
-
-func (dirResources) Resolve(location string) string {
-	switch {
-	case location == "" || location == "/":
-		return "/"
-	case strings.HasPrefix(location, "http://") || strings.HasPrefix(location, "https://"):
-		return location
-	case strings.HasPrefix(location, "/web/") || strings.HasPrefix(location, "web/"):
-		return "/" + strings.Trim(location, "/")
-	default:
-		return location
-	}
-}
-
 // webFiles lists the regular files under dir as slash paths relative to it,
-// sorted, skipping dot files (such as .keep).
+// sorted, skipping dot files (such as .keep) and compressed copies of
+// app.wasm (app.wasm.br, app.wasm.gz: derived by this package, never read
+// from web/, where an old one could be stale).
 func webFiles(dir string) ([]string, error) {
 	var files []string
 	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
@@ -136,7 +119,7 @@ func webFiles(dir string) ([]string, error) {
 			}
 			return nil
 		}
-		if d.Type().IsRegular() {
+		if d.Type().IsRegular() && !isWasmCopy(p, dir) {
 			rel, err := filepath.Rel(dir, p)
 			if err != nil {
 				return err
@@ -150,4 +133,14 @@ func webFiles(dir string) ([]string, error) {
 	}
 	sort.Strings(files)
 	return files, nil
+}
+
+// isWasmCopy reports whether p is a compressed copy of dir/app.wasm.
+func isWasmCopy(p, dir string) bool {
+	for _, enc := range Encodings {
+		if p == filepath.Join(dir, "app.wasm"+enc.Ext) {
+			return true
+		}
+	}
+	return false
 }
