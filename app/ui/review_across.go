@@ -236,25 +236,34 @@ func (r *review) renderTable() app.UI {
 			}
 		}
 		trs = append(trs, app.Tr().DataSet("transport", string(id)).Body(
-			app.Td().Class("alv-num-cell").Text(itoa(i+1)),
-			app.Td().Body(
+			app.Td().Class("rv-who").Body(
 				app.Button().ID("rv-row-"+string(id)).Type("button").Class("alv-button rv-open-row").
 					Aria("label", "Review transport "+string(id)).Text(string(id)).
 					OnClick(func(ctx app.Context, e app.Event) { r.open(ctx, id) }),
-				app.Div().Class("rv-sub").Text(a.Opened.UTC().Format(time.DateOnly)),
+				app.Div().Class("rv-sub rv-nowrap").Body(
+					app.Span().Class("alv-sr").Text("row "),
+					app.Text("#"+itoa(i+1)+" "+a.Opened.UTC().Format(time.DateOnly)),
+				),
+				app.Div().Class("rv-route-cell").Text(routeText(a)),
+				app.Div().Class("rv-sub").Text(a.Vehicle),
 			),
-			app.Td().Text(routeText(a)),
-			app.Td().Text(a.Vehicle),
 			app.Td().Class("alv-num-cell").DataSet("col", "planned").Body(cellUI(o.PlannedL)),
 			app.Td().Class("alv-num-cell").DataSet("col", "used").Body(cellUI(o.UsedL)),
 			app.Td().Class("alv-num-cell").DataSet("col", "ratio").Body(cellUI(o.Ratio)),
 			app.Td().Class("alv-num-cell").DataSet("col", "reserve").Body(cellUI(o.ReserveAtArrivalL)),
 			app.Td().Class("alv-num-cell").DataSet("col", "required").Body(cellUI(o.ReserveRequiredL)),
-			app.Td().Body(
-				app.Span().Class("rv-dev-count").DataSet("col", "deviations").Text(itoa(len(a.Deviations))),
-				app.Span().Class("rv-codes").Body(codes...),
-			),
+			app.Td().Class("alv-num-cell rv-dev-count").DataSet("col", "deviations").Text(itoa(len(a.Deviations))),
 		))
+		// The codes on a row of their own under the figures, so that the
+		// number columns stay narrow enough for a portrait tablet.
+		if len(codes) > 0 {
+			trs = append(trs, app.Tr().Class("rv-codes-row").Body(
+				app.Td().ColSpan(7).Body(
+					app.Span().Class("alv-sr").Text("Deviations of "+string(id)+": "),
+					app.Span().Class("rv-codes").Body(codes...),
+				),
+			))
+		}
 	}
 	return app.Section().Class("alv-card rv-card").Aria("labelledby", "rv-table-title").Body(
 		app.H3().ID("rv-table-title").Class("alv-card-title").Text("Transports, oldest first"),
@@ -262,16 +271,13 @@ func (r *review) renderTable() app.UI {
 			app.Table().ID("rv-table").Class("alv-table rv-table").Body(
 				app.Caption().Class("alv-sr").Text("Planned against used oxygen, reserve at arrival and deviations per transport"),
 				app.THead().Body(app.Tr().Body(
-					app.Th().Scope("col").Text("Row"),
 					app.Th().Scope("col").Text("Transport"),
-					app.Th().Scope("col").Text("Route"),
-					app.Th().Scope("col").Text("Vehicle"),
 					app.Th().Scope("col").Text("Planned L"),
 					app.Th().Scope("col").Text("Used L"),
 					app.Th().Scope("col").Text("Used ÷ planned"),
 					app.Th().Scope("col").Text("Reserve at arrival L"),
 					app.Th().Scope("col").Text("Policy reserve L"),
-					app.Th().Scope("col").Text("Deviations"),
+					app.Th().Scope("col").Text("Devia­tions"),
 				)),
 				app.TBody().Body(trs...),
 			),

@@ -31,18 +31,15 @@ func timelineSpan(tl *logbook.Timeline) float64 {
 	return end
 }
 
-// legBands marks the planned legs, labelled with their altitude in the
-// display unit.
+// legBands marks the planned legs, labelled with their number and
+// altitude in the display unit (short: a leg of a few minutes is narrow;
+// the legs table names them).
 func legBands(tl *logbook.Timeline, altUnit string) []plotBand {
 	bands := make([]plotBand, 0, len(tl.PlannedLegs))
 	for _, l := range tl.PlannedLegs {
-		name := l.Label
-		if name == "" {
-			name = l.Where
-		}
 		bands = append(bands, plotBand{
 			X0: l.StartMinute.InexactFloat64(), X1: l.EndMinute.InexactFloat64(),
-			Label: fmt.Sprintf("%d %s · %s", l.Index+1, name, altitudeText(l.AltitudeFt, altUnit)),
+			Label: fmt.Sprintf("leg %d · %s", l.Index+1, altitudeText(l.AltitudeFt, altUnit)),
 		})
 	}
 	return bands
@@ -175,7 +172,7 @@ func distributionPlot(id, title, yLabel, refLabel string, d logbook.Distribution
 		ID:     id,
 		Title:  title,
 		Desc:   fmt.Sprintf("%s per transport, by row of the table (%d not computable): %s.", yLabel, d.NotComputable, text),
-		X:      plotAxis{Label: "Transport (row of the table)", Min: 0, Max: xMax},
+		X:      plotAxis{Label: "Transport (row # of the table)", Min: 0, Max: xMax},
 		Y:      plotAxis{Label: yLabel, Min: 0, Max: hi},
 		HMarks: []plotHMark{{Y: 1, Label: refLabel}},
 		Lines:  []plotLine{{Name: "one transport", Class: "alv-plot-line-1 rv-dots", Points: pts, Markers: true}},
