@@ -27,10 +27,10 @@ const demoBundle = "../../testdata/vault/demo.alvea-bundle"
 // logbook tests). Demo only: it is published, so it protects nothing.
 const auditPass = "demo only: kestrel over the salt flats"
 
-// buildScenario copies the demo bundle into dir (the tests never touch the
+// demoCopy copies the demo bundle into dir (the tests never touch the
 // committed file) and returns the copy's path and the record number of its
 // last record.
-func buildScenario(t *testing.T, dir string) (string, uint64) {
+func demoCopy(t *testing.T, dir string) (string, uint64) {
 	t.Helper()
 	data, err := os.ReadFile(demoBundle)
 	if err != nil {
@@ -89,7 +89,7 @@ func golden(t *testing.T, name string, got []byte) {
 
 func TestAuditGolden(t *testing.T) {
 	dir := t.TempDir()
-	bundle, _ := buildScenario(t, dir)
+	bundle, _ := demoCopy(t, dir)
 	old := time.Date(2031, 6, 1, 12, 0, 0, 0, time.UTC)
 	if err := os.Chtimes(bundle, old, old); err != nil {
 		t.Fatal(err)
@@ -131,7 +131,7 @@ func TestAuditGolden(t *testing.T) {
 
 func TestAuditPassphraseFromStdinAndFilters(t *testing.T) {
 	dir := t.TempDir()
-	bundle, _ := buildScenario(t, dir)
+	bundle, _ := demoCopy(t, dir)
 	// No terminal: one line from standard input.
 	code, out, errs := runAudit([]string{"--vehicle", "road", "--from", "2031-05-09", "--to", "2031-05-09", bundle}, auditPass+"\n")
 	if code != ExitAuditOK {
@@ -148,7 +148,7 @@ func TestAuditPassphraseFromStdinAndFilters(t *testing.T) {
 
 func TestAuditTamperedExits3NamingRecord(t *testing.T) {
 	dir := t.TempDir()
-	bundle, last := buildScenario(t, dir)
+	bundle, last := demoCopy(t, dir)
 	data, _ := os.ReadFile(bundle)
 	// The last bytes before the 32-byte whole-file check belong to the last
 	// record's body.
@@ -174,7 +174,7 @@ func TestAuditTamperedExits3NamingRecord(t *testing.T) {
 
 func TestAuditWrongPassphraseExits4(t *testing.T) {
 	dir := t.TempDir()
-	bundle, _ := buildScenario(t, dir)
+	bundle, _ := demoCopy(t, dir)
 	code, out, errs := runAudit([]string{bundle, "--passphrase-file", writePass(t, dir, "wrong-but-long-passphrase")}, "")
 	if code != ExitAuditPassphrase || out != "" || !strings.Contains(errs, "wrong passphrase") {
 		t.Errorf("exit %d, stdout %q, stderr %q", code, out, errs)
