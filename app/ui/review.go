@@ -113,6 +113,10 @@ func (r *review) load(ctx app.Context) {
 		ctx.Dispatch(func(ctx app.Context) {
 			r.busy = false
 			r.adopt(rep, rev, err)
+			// An entry appended while the audit was read: read it again.
+			if err == nil && r.session.Rev() != rev {
+				r.sync(ctx)
+			}
 		})
 	})
 }
