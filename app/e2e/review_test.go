@@ -78,7 +78,7 @@ func rvCLIReport(t *testing.T) (*logbook.AuditReport, string) {
 
 // importDemo imports the demo bundle into the fresh profile's empty
 // logbook, as a person would: choose the file, type the passphrase.
-func (b *browser) importDemo(url string) {
+func (b *browser) rvImportDemo(url string) {
 	b.t.Helper()
 	b.open(url)
 	b.waitFor("the import form", `document.querySelector("#lb-import-file") !== null`, 30*time.Second)
@@ -91,17 +91,17 @@ func (b *browser) importDemo(url string) {
 	}
 }
 
-// tableCell is how the table writes an audited amount: its value, or
+// rvTableCell is how the table writes an audited amount: its value, or
 // "not computable" (the figures of a transport's page are written exactly
 // as logbook.Amount.String(): "265 L", "not computable: reason").
-func tableCell(a logbook.Amount) string {
+func rvTableCell(a logbook.Amount) string {
 	if !a.Known() {
 		return "not computable"
 	}
 	return a.Value.String()
 }
 
-func (b *browser) cell(id logbook.TransportID, col string) string {
+func (b *browser) rvCell(id logbook.TransportID, col string) string {
 	b.t.Helper()
 	return b.text(fmt.Sprintf(`#rv-table tr[data-transport=%q] [data-col=%q]`, string(id), col))
 }
@@ -116,7 +116,7 @@ func TestReviewMatchesCLIAndPrints(t *testing.T) {
 	want, summary := rvCLIReport(t)
 	srv := startApp(t, repoRoot)
 	b := newBrowser(t, t.TempDir())
-	b.importDemo(srv.URL("/logbook"))
+	b.rvImportDemo(srv.URL("/logbook"))
 
 	b.tap("#tab-review")
 	b.waitFor("the review table", `document.querySelectorAll("#rv-table tr[data-transport]").length === 3`, 30*time.Second)
@@ -126,11 +126,11 @@ func TestReviewMatchesCLIAndPrints(t *testing.T) {
 		a := &want.Transports[i]
 		o := &a.Oxygen
 		for col, v := range map[string]string{
-			"planned": tableCell(o.PlannedL), "used": tableCell(o.UsedL), "ratio": tableCell(o.Ratio),
-			"reserve": tableCell(o.ReserveAtArrivalL), "required": tableCell(o.ReserveRequiredL),
+			"planned": rvTableCell(o.PlannedL), "used": rvTableCell(o.UsedL), "ratio": rvTableCell(o.Ratio),
+			"reserve": rvTableCell(o.ReserveAtArrivalL), "required": rvTableCell(o.ReserveRequiredL),
 			"deviations": fmt.Sprint(len(a.Deviations)),
 		} {
-			if got := b.cell(a.ID, col); got != v {
+			if got := b.rvCell(a.ID, col); got != v {
 				t.Errorf("table %s %s = %q, the CLI says %q", a.ID, col, got, v)
 			}
 		}
