@@ -43,7 +43,7 @@ type review struct {
 
 	all       *logbook.AuditReport // every transport, as AuditVault gave it
 	shown     *logbook.AuditReport // the filtered report (nil while the filter is invalid)
-	form      reviewFilterForm
+	form      rvFilterForm
 	filterMsg string
 	include   map[string]bool // identifying CSV columns the auditor ticked in
 	csvStatus string
@@ -135,7 +135,7 @@ func (r *review) audit(c context.Context) (*logbook.AuditReport, error) {
 func (r *review) adopt(rep *logbook.AuditReport, rev int, err error) {
 	if err != nil {
 		r.all, r.shown = nil, nil
-		r.problem = reviewMessage(err)
+		r.problem = rvMessage(err)
 		return
 	}
 	r.all, r.auditedRev = rep, rev

@@ -16,8 +16,8 @@ import (
 // Across transports: filters by date range, vehicle and flags; the table
 // of transports; totals and distributions; the CSV export.
 
-// reviewFilterForm is what the auditor set in the filters.
-type reviewFilterForm struct {
+// rvFilterForm is what the auditor set in the filters.
+type rvFilterForm struct {
 	from, to string // yyyy-mm-dd (UTC days, as `alvea audit --from/--to`), "" for no bound
 	vehicle  string
 	flags    []string // deviation codes; a transport must carry every one
@@ -25,7 +25,7 @@ type reviewFilterForm struct {
 
 // filter turns the form into a logbook.AuditFilter, or a sentence saying
 // what is wrong. The "to" day is included, as in `alvea audit --to`.
-func (f reviewFilterForm) filter() (logbook.AuditFilter, string) {
+func (f rvFilterForm) filter() (logbook.AuditFilter, string) {
 	out := logbook.AuditFilter{Vehicle: strings.TrimSpace(f.vehicle), Flags: slices.Clone(f.flags)}
 	if f.from != "" {
 		t, err := time.Parse(time.DateOnly, f.from)
@@ -78,15 +78,15 @@ func (r *review) toggleFlag(ctx app.Context, code string) {
 }
 
 func (r *review) clearFilter(ctx app.Context, e app.Event) {
-	r.form = reviewFilterForm{}
+	r.form = rvFilterForm{}
 	r.csvStatus = ""
 	r.applyFilter()
 }
 
 func (r *review) renderAcross() app.UI {
-	top := "Alvea review · across transports · chain of " + plural(r.all.Chain.Records, "record") + ", head " + r.all.Chain.Head + " · audit rules " + r.all.AuditVersion
+	top := "Alvea review · across transports · chain of " + rvPlural(r.all.Chain.Records, "record") + ", head " + r.all.Chain.Head + " · audit rules " + r.all.AuditVersion
 	return app.Div().ID("rv-across").Class("rv-across").Body(
-		app.Style().Text(printPageCSS(top)),
+		app.Style().Text(rvPrintPageCSS(top)),
 		r.renderChain(),
 		r.renderFilters(),
 		app.If(r.shown != nil, func() app.UI {
@@ -97,7 +97,7 @@ func (r *review) renderAcross() app.UI {
 				r.renderCSV(),
 			)
 		}),
-		app.P().Class("alv-note rv-audit-note").Text(auditNote),
+		app.P().Class("alv-note rv-audit-note").Text(rvAuditNote),
 	)
 }
 
@@ -105,13 +105,13 @@ func (r *review) renderAcross() app.UI {
 func (r *review) renderChain() app.UI {
 	c := r.all.Chain
 	o := r.all.Options
-	rules := "Audit rules " + r.all.AuditVersion + ": a run below the SpO2 target longer than " + minutesOf(o.SpO2BelowLimit) +
-		" is a deviation; a cylinder change more than " + minutesOf(o.ChangeLateTolerance) + " after the plan is late; gauge readings up to " +
-		minutesOf(o.ArrivalReadingWindow) + " after arrival count as at arrival."
+	rules := "Audit rules " + r.all.AuditVersion + ": a run below the SpO2 target longer than " + rvMinutes(o.SpO2BelowLimit) +
+		" is a deviation; a cylinder change more than " + rvMinutes(o.ChangeLateTolerance) + " after the plan is late; gauge readings up to " +
+		rvMinutes(o.ArrivalReadingWindow) + " after arrival count as at arrival."
 	if c.Verified {
 		return app.Div().ID("rv-chain-status").Class("alv-card rv-card").Body(
 			app.H2().Class("alv-card-title").Text("Across transports"),
-			app.P().Text("Chain verified: "+plural(c.Records, "record")+", head "+c.Head+"."),
+			app.P().Text("Chain verified: "+rvPlural(c.Records, "record")+", head "+c.Head+"."),
 			app.P().Class("alv-note").Text(rules),
 		)
 	}
@@ -127,7 +127,7 @@ func (r *review) renderChain() app.UI {
 	)
 }
 
-func minutesOf(d time.Duration) string { return rounded(d.Minutes(), 1, physio.RoundNearest) + " min" }
+func rvMinutes(d time.Duration) string { return rounded(d.Minutes(), 1, physio.RoundNearest) + " min" }
 
 func (r *review) renderFilters() app.UI {
 	f := &r.form
@@ -136,12 +136,12 @@ func (r *review) renderFilters() app.UI {
 		code := c.Code
 		flags = append(flags, app.Button().ID("rv-flag-"+code).Type("button").Class("alv-seg-btn rv-flag").
 			DataSet("code", code).Aria("pressed", ariaBool(slices.Contains(f.flags, code))).
-			Text(deviationLabel(code)).
+			Text(rvDeviationLabel(code)).
 			OnClick(func(ctx app.Context, e app.Event) { r.toggleFlag(ctx, code) }))
 	}
 	count := ""
 	if r.shown != nil {
-		count = itoa(len(r.shown.Transports)) + " of " + plural(len(r.all.Transports), "transport")
+		count = rvItoa(len(r.shown.Transports)) + " of " + rvPlural(len(r.all.Transports), "transport")
 	}
 	return app.Section().ID("rv-filters").Class("alv-card rv-card rv-filters").Aria("labelledby", "rv-filters-title").Body(
 		app.H3().ID("rv-filters-title").Class("alv-card-title").Text("Filter"),
@@ -230,7 +230,7 @@ func (r *review) renderTable() app.UI {
 			if n := seen[c.Code]; n > 0 {
 				text := c.Code
 				if n > 1 {
-					text += " ×" + itoa(n)
+					text += " ×" + rvItoa(n)
 				}
 				codes = append(codes, app.Span().Class("rv-code").Text(text))
 			}
@@ -242,17 +242,17 @@ func (r *review) renderTable() app.UI {
 					OnClick(func(ctx app.Context, e app.Event) { r.open(ctx, id) }),
 				app.Div().Class("rv-sub rv-nowrap").Body(
 					app.Span().Class("alv-sr").Text("row "),
-					app.Text("#"+itoa(i+1)+" "+a.Opened.UTC().Format(time.DateOnly)),
+					app.Text("#"+rvItoa(i+1)+" "+a.Opened.UTC().Format(time.DateOnly)),
 				),
-				app.Div().Class("rv-route-cell").Text(routeText(a)),
+				app.Div().Class("rv-route-cell").Text(rvRoute(a)),
 				app.Div().Class("rv-sub").Text(a.Vehicle),
 			),
-			app.Td().Class("alv-num-cell").DataSet("col", "planned").Body(cellUI(o.PlannedL)),
-			app.Td().Class("alv-num-cell").DataSet("col", "used").Body(cellUI(o.UsedL)),
-			app.Td().Class("alv-num-cell").DataSet("col", "ratio").Body(cellUI(o.Ratio)),
-			app.Td().Class("alv-num-cell").DataSet("col", "reserve").Body(cellUI(o.ReserveAtArrivalL)),
-			app.Td().Class("alv-num-cell").DataSet("col", "required").Body(cellUI(o.ReserveRequiredL)),
-			app.Td().Class("alv-num-cell rv-dev-count").DataSet("col", "deviations").Text(itoa(len(a.Deviations))),
+			app.Td().Class("alv-num-cell").DataSet("col", "planned").Body(rvCellUI(o.PlannedL)),
+			app.Td().Class("alv-num-cell").DataSet("col", "used").Body(rvCellUI(o.UsedL)),
+			app.Td().Class("alv-num-cell").DataSet("col", "ratio").Body(rvCellUI(o.Ratio)),
+			app.Td().Class("alv-num-cell").DataSet("col", "reserve").Body(rvCellUI(o.ReserveAtArrivalL)),
+			app.Td().Class("alv-num-cell").DataSet("col", "required").Body(rvCellUI(o.ReserveRequiredL)),
+			app.Td().Class("alv-num-cell rv-dev-count").DataSet("col", "deviations").Text(rvItoa(len(a.Deviations))),
 		))
 		// The codes on a row of their own under the figures, so that the
 		// number columns stay narrow enough for a portrait tablet.
@@ -296,20 +296,20 @@ func (r *review) renderTotals() app.UI {
 		}
 		devs = append(devs, app.Tr().DataSet("code", c.Code).Body(
 			app.Th().Scope("row").Body(app.Span().Class("rv-code").Text(c.Code)),
-			app.Td().Text(deviationLabel(c.Code)),
-			app.Td().Class("alv-num-cell").DataSet("col", "count").Text(itoa(n)),
-			app.Td().Class("alv-num-cell").DataSet("col", "transports").Text(itoa(t.TransportsWith[c.Code])),
+			app.Td().Text(rvDeviationLabel(c.Code)),
+			app.Td().Class("alv-num-cell").DataSet("col", "count").Text(rvItoa(n)),
+			app.Td().Class("alv-num-cell").DataSet("col", "transports").Text(rvItoa(t.TransportsWith[c.Code])),
 		))
 	}
 	return app.Section().ID("rv-totals").Class("alv-card rv-card").Aria("labelledby", "rv-totals-title").Body(
 		app.H3().ID("rv-totals-title").Class("alv-card-title").Text("Totals"),
 		app.Div().Class("alv-figures").Body(
-			plainFigure("rv-total-transports", "Transports", itoa(t.Transports), itoa(t.Closed)+" closed"),
-			plainFigure("rv-total-planned", "Planned", t.PlannedL.String()+" L", "over "+plural(t.Compared, "transport")+" with planned and used"),
-			plainFigure("rv-total-used", "Used", t.UsedL.String()+" L", "same transports"),
-			figureUI("rv-total-ratio", "Used ÷ planned, overall", t.OverallRatio, ""),
-			plainFigure("rv-total-reserve-known", "Reserve at arrival known", itoa(t.ReserveKnown), ""),
-			plainFigure("rv-total-nc", "With a figure not computable", itoa(t.NotComputable), ""),
+			rvPlainFigure("rv-total-transports", "Transports", rvItoa(t.Transports), rvItoa(t.Closed)+" closed"),
+			rvPlainFigure("rv-total-planned", "Planned", t.PlannedL.String()+" L", "over "+rvPlural(t.Compared, "transport")+" with planned and used"),
+			rvPlainFigure("rv-total-used", "Used", t.UsedL.String()+" L", "same transports"),
+			rvFigure("rv-total-ratio", "Used ÷ planned, overall", t.OverallRatio, ""),
+			rvPlainFigure("rv-total-reserve-known", "Reserve at arrival known", rvItoa(t.ReserveKnown), ""),
+			rvPlainFigure("rv-total-nc", "With a figure not computable", rvItoa(t.NotComputable), ""),
 		),
 		app.If(len(devs) > 0, func() app.UI {
 			return app.Table().ID("rv-dev-totals").Class("alv-table rv-table").Body(
@@ -326,8 +326,8 @@ func (r *review) renderTotals() app.UI {
 	)
 }
 
-// plainFigure is a labelled count or sum of the report.
-func plainFigure(id, label, value, note string) app.UI {
+// rvPlainFigure is a labelled count or sum of the report.
+func rvPlainFigure(id, label, value, note string) app.UI {
 	return app.Div().Class("rv-fig").Body(
 		app.Span().Class("alv-figure-label").Text(label),
 		app.Span().ID(id).Class("rv-amount").Body(app.Span().Class("rv-num").Text(value)),
@@ -340,18 +340,18 @@ func (r *review) renderDistributions() app.UI {
 	return app.Section().ID("rv-distributions").Class("alv-card rv-card").Aria("labelledby", "rv-dist-title").Body(
 		app.H3().ID("rv-dist-title").Class("alv-card-title").Text("Distributions"),
 		app.Div().Class("alv-plots").Body(
-			distributionUI("rv-ratio-dist", r.shown.RatioDistribution,
-				distributionPlot("rv-plot-ratio", "Used ÷ planned oxygen per transport", "Used ÷ planned", "1 = as planned", r.shown.RatioDistribution, rows)),
-			distributionUI("rv-reserve-dist", r.shown.ReserveDistribution,
-				distributionPlot("rv-plot-reserve", "Reserve at arrival per transport", "Reserve ÷ policy reserve", "1 = policy reserve", r.shown.ReserveDistribution, rows)),
+			rvDistribution("rv-ratio-dist", r.shown.RatioDistribution,
+				rvDistributionPlot("rv-plot-ratio", "Used ÷ planned oxygen per transport", "Used ÷ planned", "1 = as planned", r.shown.RatioDistribution, rows)),
+			rvDistribution("rv-reserve-dist", r.shown.ReserveDistribution,
+				rvDistributionPlot("rv-plot-reserve", "Reserve at arrival per transport", "Reserve ÷ policy reserve", "1 = policy reserve", r.shown.ReserveDistribution, rows)),
 		),
 	)
 }
 
-// distributionUI shows one distribution: the plot, its summary and the
+// rvDistribution shows one distribution: the plot, its summary and the
 // counts per bin.
-func distributionUI(id string, d logbook.Distribution, p plotSpec) app.UI {
-	summary := itoa(len(d.Values)) + " computable, " + itoa(d.NotComputable) + " not computable"
+func rvDistribution(id string, d logbook.Distribution, p plotSpec) app.UI {
+	summary := rvItoa(len(d.Values)) + " computable, " + rvItoa(d.NotComputable) + " not computable"
 	if d.Median != nil {
 		summary += "; min " + d.Min.String() + ", median " + d.Median.String() + ", max " + d.Max.String()
 	}
@@ -359,7 +359,7 @@ func distributionUI(id string, d logbook.Distribution, p plotSpec) app.UI {
 	for _, b := range d.Bins {
 		bins = append(bins, app.Tr().Body(
 			app.Th().Scope("row").Class("alv-num-cell").Text(b.Label),
-			app.Td().Class("alv-num-cell").Text(itoa(b.Count)),
+			app.Td().Class("alv-num-cell").Text(rvItoa(b.Count)),
 		))
 	}
 	return app.Div().ID(id).Class("rv-dist").Body(
@@ -376,8 +376,8 @@ func distributionUI(id string, d logbook.Distribution, p plotSpec) app.UI {
 	)
 }
 
-// csvColumnLabels names the identifying CSV columns for the auditor.
-var csvColumnLabels = map[string]string{
+// rvCSVColumnLabels names the identifying CSV columns for the auditor.
+var rvCSVColumnLabels = map[string]string{
 	logbook.ColumnID:      "Transport id",
 	logbook.ColumnDate:    "Date",
 	logbook.ColumnRoute:   "Route",
@@ -417,7 +417,7 @@ func (r *review) exportCSV(ctx app.Context, e app.Event) {
 	if inc := r.csvIncluded(); len(inc) > 0 {
 		what = "identifying columns: " + strings.Join(inc, ", ")
 	}
-	r.csvStatus = "Saved " + name + ": " + plural(n, "row") + ", " + what + "."
+	r.csvStatus = "Saved " + name + ": " + rvPlural(n, "row") + ", " + what + "."
 }
 
 func (r *review) renderCSV() app.UI {
@@ -425,7 +425,7 @@ func (r *review) renderCSV() app.UI {
 	for _, c := range logbook.IdentifyingColumns {
 		col := c
 		toggles = append(toggles, app.Button().ID("rv-inc-"+col).Type("button").Class("alv-seg-btn rv-flag").
-			Aria("pressed", ariaBool(r.include[col])).Text(csvColumnLabels[col]).
+			Aria("pressed", ariaBool(r.include[col])).Text(rvCSVColumnLabels[col]).
 			OnClick(func(ctx app.Context, e app.Event) {
 				r.include[col] = !r.include[col]
 				r.csvStatus = ""

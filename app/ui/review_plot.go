@@ -13,9 +13,9 @@ import (
 // Distributions for the shared plot component (plot.go). Nothing here is
 // computed for the patient: the values are the audit's, placed on axes.
 
-// timelineSpan returns the last minute worth drawing: the end of the last
+// rvTimelineSpan returns the last minute worth drawing: the end of the last
 // planned leg, the last event or the last observation, at least 10.
-func timelineSpan(tl *logbook.Timeline) float64 {
+func rvTimelineSpan(tl *logbook.Timeline) float64 {
 	end := 10.0
 	for _, l := range tl.PlannedLegs {
 		end = math.Max(end, l.EndMinute.InexactFloat64())
@@ -31,23 +31,23 @@ func timelineSpan(tl *logbook.Timeline) float64 {
 	return end
 }
 
-// legBands marks the planned legs, labelled with their number and
+// rvLegBands marks the planned legs, labelled with their number and
 // altitude in the display unit (short: a leg of a few minutes is narrow;
 // the legs table names them).
-func legBands(tl *logbook.Timeline, altUnit string) []plotBand {
+func rvLegBands(tl *logbook.Timeline, altUnit string) []plotBand {
 	bands := make([]plotBand, 0, len(tl.PlannedLegs))
 	for _, l := range tl.PlannedLegs {
 		bands = append(bands, plotBand{
 			X0: l.StartMinute.InexactFloat64(), X1: l.EndMinute.InexactFloat64(),
-			Label: fmt.Sprintf("leg %d · %s", l.Index+1, altitudeText(l.AltitudeFt, altUnit)),
+			Label: fmt.Sprintf("leg %d · %s", l.Index+1, rvAltitude(l.AltitudeFt, altUnit)),
 		})
 	}
 	return bands
 }
 
-// eventMarks marks the recorded events; an event that recorded a cabin
+// rvEventMarks marks the recorded events; an event that recorded a cabin
 // altitude carries it in its label.
-func eventMarks(tl *logbook.Timeline, altUnit string) []plotVMark {
+func rvEventMarks(tl *logbook.Timeline, altUnit string) []plotVMark {
 	cabin := map[string]physio.Number{}
 	for _, p := range tl.CabinAltitudeFt {
 		cabin[p.Record] = p.Value
@@ -59,17 +59,17 @@ func eventMarks(tl *logbook.Timeline, altUnit string) []plotVMark {
 			label += " " + e.Text
 		}
 		if alt, ok := cabin[e.Record]; ok {
-			label += " · cabin " + altitudeText(alt, altUnit)
+			label += " · cabin " + rvAltitude(alt, altUnit)
 		}
 		marks = append(marks, plotVMark{X: e.Minute.InexactFloat64(), Label: label})
 	}
 	return marks
 }
 
-// heldSteps draws readings as the audit counts them: each value holds
+// rvHeldSteps draws readings as the audit counts them: each value holds
 // until the next reading (sample and hold), so the time under a line is
 // the time the audit counts.
-func heldSteps(points []logbook.TimePoint) []plotPoint {
+func rvHeldSteps(points []logbook.TimePoint) []plotPoint {
 	out := make([]plotPoint, 0, 2*len(points))
 	for i, p := range points {
 		x, y := p.Minute.InexactFloat64(), p.Value.InexactFloat64()
@@ -81,7 +81,7 @@ func heldSteps(points []logbook.TimePoint) []plotPoint {
 	return out
 }
 
-func readingPoints(points []logbook.TimePoint) []plotPoint {
+func rvReadingPoints(points []logbook.TimePoint) []plotPoint {
 	out := make([]plotPoint, 0, len(points))
 	for _, p := range points {
 		out = append(out, plotPoint{X: p.Minute.InexactFloat64(), Y: p.Value.InexactFloat64()})
@@ -89,7 +89,7 @@ func readingPoints(points []logbook.TimePoint) []plotPoint {
 	return out
 }
 
-func pointsText(points []logbook.TimePoint, unit string) string {
+func rvPointsText(points []logbook.TimePoint, unit string) string {
 	parts := make([]string, 0, len(points))
 	for _, p := range points {
 		parts = append(parts, fmt.Sprintf("minute %s: %s%s (%s)", p.Minute, p.Value, unit, p.Record))
@@ -97,9 +97,9 @@ func pointsText(points []logbook.TimePoint, unit string) string {
 	return strings.Join(parts, "; ")
 }
 
-// spo2Plot is the patient course: SpO2 readings held until the next, the
+// rvSpO2Plot is the patient course: SpO2 readings held until the next, the
 // target, the planned legs and the events.
-func spo2Plot(a *logbook.TransportAudit, altUnit string) plotSpec {
+func rvSpO2Plot(a *logbook.TransportAudit, altUnit string) plotSpec {
 	tl := &a.Timeline
 	target := tl.TargetPercent.InexactFloat64()
 	lo := target
@@ -110,22 +110,22 @@ func spo2Plot(a *logbook.TransportAudit, altUnit string) plotSpec {
 		ID:    "rv-plot-spo2",
 		Title: "SpO2 through the transport",
 		Desc: fmt.Sprintf("SpO2 readings against the target of %s %%, on minutes from the opening of the transport, with the planned legs and the recorded events. Readings: %s.",
-			tl.TargetPercent, pointsText(tl.SpO2Percent, " %")),
-		X:      plotAxis{Label: "Minutes from opening", Unit: "min", Min: 0, Max: timelineSpan(tl)},
+			tl.TargetPercent, rvPointsText(tl.SpO2Percent, " %")),
+		X:      plotAxis{Label: "Minutes from opening", Unit: "min", Min: 0, Max: rvTimelineSpan(tl)},
 		Y:      plotAxis{Label: "SpO2", Unit: "%", Min: math.Floor(lo) - 2, Max: 100},
-		Bands:  legBands(tl, altUnit),
-		VMarks: eventMarks(tl, altUnit),
+		Bands:  rvLegBands(tl, altUnit),
+		VMarks: rvEventMarks(tl, altUnit),
 		HMarks: []plotHMark{{Y: target, Label: "target " + tl.TargetPercent.String() + " %"}},
 		Lines: []plotLine{
-			{Name: "SpO2, each reading held until the next", Class: "alv-plot-line-1", Points: heldSteps(tl.SpO2Percent)},
-			{Name: "SpO2 readings", Class: "alv-plot-line-1 rv-dots", Points: readingPoints(tl.SpO2Percent), Markers: true},
+			{Name: "SpO2, each reading held until the next", Class: "alv-plot-line-1", Points: rvHeldSteps(tl.SpO2Percent)},
+			{Name: "SpO2 readings", Class: "alv-plot-line-1 rv-dots", Points: rvReadingPoints(tl.SpO2Percent), Markers: true},
 		},
 	}
 }
 
-// fio2Plot is the FiO2 set-up through the transport (held until changed),
+// rvFiO2Plot is the FiO2 set-up through the transport (held until changed),
 // with the planned legs and the events.
-func fio2Plot(a *logbook.TransportAudit, altUnit string) plotSpec {
+func rvFiO2Plot(a *logbook.TransportAudit, altUnit string) plotSpec {
 	tl := &a.Timeline
 	hi := 0.5
 	for _, p := range tl.FiO2 {
@@ -134,21 +134,21 @@ func fio2Plot(a *logbook.TransportAudit, altUnit string) plotSpec {
 	return plotSpec{
 		ID:     "rv-plot-fio2",
 		Title:  "FiO2 through the transport",
-		Desc:   "FiO2 as observed, each value held until the next, on minutes from the opening of the transport. Values: " + pointsText(tl.FiO2, "") + ".",
-		X:      plotAxis{Label: "Minutes from opening", Unit: "min", Min: 0, Max: timelineSpan(tl)},
+		Desc:   "FiO2 as observed, each value held until the next, on minutes from the opening of the transport. Values: " + rvPointsText(tl.FiO2, "") + ".",
+		X:      plotAxis{Label: "Minutes from opening", Unit: "min", Min: 0, Max: rvTimelineSpan(tl)},
 		Y:      plotAxis{Label: "FiO2", Unit: "fraction", Min: 0.2, Max: math.Min(1, hi+0.1)},
-		Bands:  legBands(tl, altUnit),
-		VMarks: eventMarks(tl, altUnit),
+		Bands:  rvLegBands(tl, altUnit),
+		VMarks: rvEventMarks(tl, altUnit),
 		Lines: []plotLine{
-			{Name: "FiO2, held until changed", Class: "alv-plot-line-2", Points: heldSteps(tl.FiO2)},
-			{Name: "FiO2 observations", Class: "alv-plot-line-2 rv-dots", Points: readingPoints(tl.FiO2), Markers: true},
+			{Name: "FiO2, held until changed", Class: "alv-plot-line-2", Points: rvHeldSteps(tl.FiO2)},
+			{Name: "FiO2 observations", Class: "alv-plot-line-2 rv-dots", Points: rvReadingPoints(tl.FiO2), Markers: true},
 		},
 	}
 }
 
-// distributionPlot places each transport's value (oldest first, by its
+// rvDistributionPlot places each transport's value (oldest first, by its
 // row number in the table) against the reference line at 1.
-func distributionPlot(id, title, yLabel, refLabel string, d logbook.Distribution, rows []logbook.TransportAudit) plotSpec {
+func rvDistributionPlot(id, title, yLabel, refLabel string, d logbook.Distribution, rows []logbook.TransportAudit) plotSpec {
 	row := map[logbook.TransportID]int{}
 	for i := range rows {
 		row[rows[i].ID] = i + 1

@@ -180,7 +180,7 @@ func TestReviewTransportFigures(t *testing.T) {
 			t.Errorf("deviation %s not listed", code)
 		}
 	}
-	if !strings.Contains(html, htmlpkg.EscapeString(deviationTexts[logbook.DevReserveBreached].Explain)) {
+	if !strings.Contains(html, htmlpkg.EscapeString(rvDeviationTexts[logbook.DevReserveBreached].Explain)) {
 		t.Error("the reserve breach has no plain-language explanation")
 	}
 	for _, id := range []string{"rv-plot-spo2", "rv-plot-fio2", "rv-legs", "rv-cylinders", "rv-setup"} {
@@ -268,12 +268,12 @@ func TestReviewFilters(t *testing.T) {
 	if count() != 1 || r.shown.Transports[0].ID != rvRoad {
 		t.Errorf("one day: %d", count())
 	}
-	r.form = reviewFilterForm{vehicle: "  ROTOR "}
+	r.form = rvFilterForm{vehicle: "  ROTOR "}
 	r.applyFilter()
 	if count() != 1 || r.shown.Transports[0].ID != rvRotor {
 		t.Errorf("vehicle: %d", count())
 	}
-	r.form = reviewFilterForm{}
+	r.form = rvFilterForm{}
 	r.toggleFlag(app.Context{}, logbook.DevNoBrief)
 	if count() != 1 || r.shown.Transports[0].ID != rvOpen {
 		t.Errorf("flag NO_BRIEF: %d", count())
@@ -287,7 +287,7 @@ func TestReviewFilters(t *testing.T) {
 	if count() != 3 {
 		t.Errorf("flags cleared: %d", count())
 	}
-	r.form = reviewFilterForm{from: "2031-05-10", to: "2031-05-01"}
+	r.form = rvFilterForm{from: "2031-05-10", to: "2031-05-01"}
 	r.applyFilter()
 	if r.shown != nil || !strings.Contains(r.filterMsg, "To must be on or after From") {
 		t.Errorf("reversed range: %q", r.filterMsg)
@@ -386,22 +386,22 @@ func TestReviewCSVExport(t *testing.T) {
 // Every deviation code has a label and a plain-language explanation.
 func TestReviewDeviationTexts(t *testing.T) {
 	for _, c := range logbook.DeviationCodes {
-		if d, ok := deviationTexts[c.Code]; !ok || d.Label == "" || len(d.Explain) < 40 {
+		if d, ok := rvDeviationTexts[c.Code]; !ok || d.Label == "" || len(d.Explain) < 40 {
 			t.Errorf("%s: no text", c.Code)
 		}
 	}
-	if len(deviationTexts) != len(logbook.DeviationCodes) {
-		t.Errorf("%d texts for %d codes", len(deviationTexts), len(logbook.DeviationCodes))
+	if len(rvDeviationTexts) != len(logbook.DeviationCodes) {
+		t.Errorf("%d texts for %d codes", len(rvDeviationTexts), len(logbook.DeviationCodes))
 	}
 }
 
 // The print header text cannot break out of its CSS string or <style>.
 func TestReviewPrintCSSQuoting(t *testing.T) {
-	got := cssString(`a "b" \c </style><x>` + "\n")
+	got := rvCSSString(`a "b" \c </style><x>` + "\n")
 	if got != `"a \"b\" \\c  /style  x  "` {
-		t.Errorf("cssString = %s", got)
+		t.Errorf("rvCSSString = %s", got)
 	}
-	css := printPageCSS("T20310503-4K7QM2D")
+	css := rvPrintPageCSS("T20310503-4K7QM2D")
 	if !strings.Contains(css, "@page") || !strings.Contains(css, `content: "T20310503-4K7QM2D"`) || !strings.Contains(css, "counter(pages)") {
 		t.Errorf("page CSS: %s", css)
 	}
@@ -410,7 +410,7 @@ func TestReviewPrintCSSQuoting(t *testing.T) {
 // Readings are drawn held until the next one, as the audit counts them.
 func TestReviewHeldSteps(t *testing.T) {
 	n := func(s string) physio.Number { return physio.Number{Decimal: decimal.RequireFromString(s)} }
-	pts := heldSteps([]logbook.TimePoint{{Minute: n("0"), Value: n("95")}, {Minute: n("30"), Value: n("91")}, {Minute: n("45"), Value: n("94")}})
+	pts := rvHeldSteps([]logbook.TimePoint{{Minute: n("0"), Value: n("95")}, {Minute: n("30"), Value: n("91")}, {Minute: n("45"), Value: n("94")}})
 	want := []plotPoint{{0, 95}, {30, 95}, {30, 91}, {45, 91}, {45, 94}}
 	if len(pts) != len(want) {
 		t.Fatalf("%v", pts)

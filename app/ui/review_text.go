@@ -16,8 +16,8 @@ import (
 // the audit's own (app/logbook); here they are only written out, and gauge
 // pressures and altitudes are converted to the display units of Settings.
 
-// reviewMessage turns an error from reading the audit into a sentence.
-func reviewMessage(err error) string {
+// rvMessage turns an error from reading the audit into a sentence.
+func rvMessage(err error) string {
 	switch {
 	case errors.Is(err, logbook.ErrLocked):
 		return "The logbook locked before the audit was read. Unlock it on the Logbook screen."
@@ -25,13 +25,13 @@ func reviewMessage(err error) string {
 	return "The audit could not be read: " + err.Error() + "."
 }
 
-// deviationText is what the screen says about a deviation code: a short
+// rvDeviationText is what the screen says about a deviation code: a short
 // label for the filter buttons and a plain-language explanation.
-type deviationText struct{ Label, Explain string }
+type rvDeviationText struct{ Label, Explain string }
 
-// deviationTexts covers every code of logbook.DeviationCodes (a native test
+// rvDeviationTexts covers every code of logbook.DeviationCodes (a native test
 // checks that none is missing).
-var deviationTexts = map[string]deviationText{
+var rvDeviationTexts = map[string]rvDeviationText{
 	logbook.DevReserveBreached: {"Reserve breached",
 		"At arrival, the oxygen left above the safe residual was less than the reserve the Brief's policy set aside: the transport used oxygen meant for delays."},
 	logbook.DevCylinderBelowResidual: {"Below residual",
@@ -58,18 +58,18 @@ var deviationTexts = map[string]deviationText{
 		"A record of this transport failed verification and could not be read; figures that needed it are not computable."},
 }
 
-func deviationLabel(code string) string {
-	if t, ok := deviationTexts[code]; ok {
+func rvDeviationLabel(code string) string {
+	if t, ok := rvDeviationTexts[code]; ok {
 		return t.Label
 	}
 	return code
 }
 
-// amountUI shows an audited amount: its value and unit, or "not computable"
+// rvAmount shows an audited amount: its value and unit, or "not computable"
 // with the reason. Its text is exactly logbook.Amount.String(), so tests
 // (and an auditor) can compare it with what `alvea audit` prints. A value
 // that cannot be computed is never shown as 0.
-func amountUI(id string, a logbook.Amount) app.UI {
+func rvAmount(id string, a logbook.Amount) app.UI {
 	el := app.Span().Class("rv-amount")
 	if id != "" {
 		el = el.ID(id)
@@ -89,54 +89,54 @@ func amountUI(id string, a logbook.Amount) app.UI {
 	return el.DataSet("known", "true").Body(parts...)
 }
 
-// cellUI is amountUI for a table cell: the value, or "not computable" (the
+// rvCellUI is rvAmount for a table cell: the value, or "not computable" (the
 // reason is given on the transport's own page).
-func cellUI(a logbook.Amount) app.UI {
+func rvCellUI(a logbook.Amount) app.UI {
 	if !a.Known() {
 		return app.Span().Class("rv-nc").Text("not computable")
 	}
 	return app.Text(a.Value.String())
 }
 
-// figureUI is a labelled audited figure with an optional note under it.
-func figureUI(id, label string, a logbook.Amount, note string) app.UI {
+// rvFigure is a labelled audited figure with an optional note under it.
+func rvFigure(id, label string, a logbook.Amount, note string) app.UI {
 	return app.Div().Class("rv-fig").Body(
 		app.Span().Class("alv-figure-label").Text(label),
-		amountUI(id, a),
+		rvAmount(id, a),
 		app.If(note != "", func() app.UI { return app.Span().Class("rv-fig-note").Text(note) }),
 	)
 }
 
-// stampUTC writes a time as `alvea audit` does.
-func stampUTC(t time.Time) string { return t.UTC().Format("2006-01-02 15:04 UTC") }
+// rvStamp writes a time as `alvea audit` does.
+func rvStamp(t time.Time) string { return t.UTC().Format("2006-01-02 15:04 UTC") }
 
-// gaugeText writes a gauge amount (psi for CGA sizes, bar otherwise, as the
+// rvGauge writes a gauge amount (psi for CGA sizes, bar otherwise, as the
 // audit gives it) in the display pressure unit: unchanged when the units
 // agree, else converted by physio and rounded to the nearest 1 psi or
 // 0.1 bar (a reading is reported, not relied on for a margin).
-func gaugeText(a logbook.Amount, unit string) string {
+func rvGauge(a logbook.Amount, unit string) string {
 	if !a.Known() {
 		return "not computable"
 	}
 	if a.Unit == unit {
 		return a.Value.String() + " " + unit
 	}
-	return convertPressure(a.Value.Decimal, a.Unit, unit, physio.RoundNearest)
+	return rvConvertPressure(a.Value.Decimal, a.Unit, unit, physio.RoundNearest)
 }
 
-// residualText writes the policy residual in the display unit, rounded up
+// rvResidual writes the policy residual in the display unit, rounded up
 // when converted (a higher residual is the safe side).
-func residualText(a logbook.Amount, unit string) string {
+func rvResidual(a logbook.Amount, unit string) string {
 	if !a.Known() {
 		return "not computable"
 	}
 	if a.Unit == unit {
 		return a.Value.String() + " " + unit
 	}
-	return convertPressure(a.Value.Decimal, a.Unit, unit, physio.RoundUp)
+	return rvConvertPressure(a.Value.Decimal, a.Unit, unit, physio.RoundUp)
 }
 
-func convertPressure(v decimal.Decimal, from, to string, r physio.Rounding) string {
+func rvConvertPressure(v decimal.Decimal, from, to string, r physio.Rounding) string {
 	p := pressureOf(v.InexactFloat64(), from)
 	if to == UnitBar {
 		return rounded(p.Bar(), 1, r) + " bar"
@@ -144,28 +144,20 @@ func convertPressure(v decimal.Decimal, from, to string, r physio.Rounding) stri
 	return rounded(p.Psi(), 0, r) + " psi"
 }
 
-// altitudeText writes an altitude given in feet in the display unit; a
+// rvAltitude writes an altitude given in feet in the display unit; a
 // conversion to metres rounds up (a higher altitude is the safe side).
-func altitudeText(ft physio.Number, unit string) string {
+func rvAltitude(ft physio.Number, unit string) string {
 	if unit == UnitM {
 		return rounded(physio.Feet(ft.InexactFloat64()).Metres(), 0, physio.RoundUp) + " m"
 	}
 	return ft.String() + " ft"
 }
 
-// altitudeValue is altitudeText's number for a plot (not rounded).
-func altitudeValue(ft float64, unit string) float64 {
-	if unit == UnitM {
-		return physio.Feet(ft).Metres()
-	}
-	return ft
-}
+// rvDevice writes a plan's device name (nasal_cannula) as words.
+func rvDevice(d string) string { return strings.ReplaceAll(d, "_", " ") }
 
-// deviceText writes a plan's device name (nasal_cannula) as words.
-func deviceText(d string) string { return strings.ReplaceAll(d, "_", " ") }
-
-// recordRange writes a transport's place in the chain: "R1–R17".
-func recordRange(a *logbook.TransportAudit) string {
+// rvRecordRange writes a transport's place in the chain: "R1–R17".
+func rvRecordRange(a *logbook.TransportAudit) string {
 	if a.FirstRecord == "" {
 		return "no records"
 	}
@@ -175,27 +167,27 @@ func recordRange(a *logbook.TransportAudit) string {
 	return a.FirstRecord + "–" + a.LastRecord
 }
 
-// chainText writes where a transport sits in the vault's chain and what
+// rvChainText writes where a transport sits in the vault's chain and what
 // verification found.
-func chainText(a *logbook.TransportAudit, chain logbook.ChainStatus) string {
-	s := recordRange(a) + " (" + plural(a.Records, "record") + ") of a chain of " + plural(chain.Records, "record") + ", head " + chain.Head
+func rvChainText(a *logbook.TransportAudit, chain logbook.ChainStatus) string {
+	s := rvRecordRange(a) + " (" + rvPlural(a.Records, "record") + ") of a chain of " + rvPlural(chain.Records, "record") + ", head " + chain.Head
 	if chain.Verified {
 		return s + ", verified"
 	}
 	return s + ", VERIFICATION FOUND PROBLEMS"
 }
 
-func plural(n int, what string) string {
+func rvPlural(n int, what string) string {
 	if n == 1 {
 		return "1 " + what
 	}
-	return itoa(n) + " " + what + "s"
+	return rvItoa(n) + " " + what + "s"
 }
 
-func itoa(n int) string { return decimal.NewFromInt(int64(n)).String() }
+func rvItoa(n int) string { return decimal.NewFromInt(int64(n)).String() }
 
-// cssString quotes text for a CSS string (content: "…").
-func cssString(s string) string {
+// rvCSSString quotes text for a CSS string (content: "…").
+func rvCSSString(s string) string {
 	var b strings.Builder
 	b.WriteByte('"')
 	for _, r := range s {
@@ -215,10 +207,10 @@ func cssString(s string) string {
 	return b.String()
 }
 
-// printPageCSS is the @page rule that writes who and what a printed page
+// rvPrintPageCSS is the @page rule that writes who and what a printed page
 // belongs to in its top margin, and the page number in the bottom margin,
 // on every printed page.
-func printPageCSS(top string) string {
-	return "@media print { @page { @top-left { content: " + cssString(top) +
+func rvPrintPageCSS(top string) string {
+	return "@media print { @page { @top-left { content: " + rvCSSString(top) +
 		"; font-size: 8pt; color: #222; } @bottom-right { content: \"Page \" counter(page) \" of \" counter(pages); font-size: 8pt; color: #222; } } }"
 }

@@ -18,10 +18,10 @@ func (r *review) renderTransport(a *logbook.TransportAudit) app.UI {
 	if engine == "" {
 		engine = "none (no Brief)"
 	}
-	chain := chainText(a, r.all.Chain)
+	chain := rvChainText(a, r.all.Chain)
 	top := "Alvea review · transport " + string(a.ID) + " · records " + chain + " · engine " + engine + " · audit rules " + a.AuditVersion
 	return app.Article().ID("rv-transport").Class("rv-transport").DataSet("transport", string(a.ID)).Aria("labelledby", "rv-transport-title").Body(
-		app.Style().Text(printPageCSS(top)),
+		app.Style().Text(rvPrintPageCSS(top)),
 		app.Div().Class("alv-actions rv-noprint").Body(
 			app.Button().ID("rv-back").Type("button").Class("alv-button").Text("← All transports").OnClick(r.back),
 		),
@@ -30,20 +30,20 @@ func (r *review) renderTransport(a *logbook.TransportAudit) app.UI {
 		r.renderCourse(a),
 		r.renderDeviations(a),
 		r.renderNotComputable(a),
-		app.P().Class("alv-note rv-audit-note").Text(auditNote),
+		app.P().Class("alv-note rv-audit-note").Text(rvAuditNote),
 	)
 }
 
-// auditNote is printed with every review.
-const auditNote = "Audit aid only. Figures come from the crew's entries and the Brief as recorded: check them against the source records. A figure that cannot be computed says why; it is never shown as 0. Local protocol and medical direction decide."
+// rvAuditNote is printed with every review.
+const rvAuditNote = "Audit aid only. Figures come from the crew's entries and the Brief as recorded: check them against the source records. A figure that cannot be computed says why; it is never shown as 0. Local protocol and medical direction decide."
 
 // renderIdent is the header of a transport's review: its id, route and
 // times, and where it sits in the chain (also in every printed page's
-// margin, see printPageCSS).
+// margin, see rvPrintPageCSS).
 func (r *review) renderIdent(a *logbook.TransportAudit, engine, chain string) app.UI {
 	closed := "not closed"
 	if a.Closed != nil {
-		closed = stampUTC(*a.Closed)
+		closed = rvStamp(*a.Closed)
 	}
 	brief := "none"
 	if a.BriefRecord != "" {
@@ -62,7 +62,7 @@ func (r *review) renderIdent(a *logbook.TransportAudit, engine, chain string) ap
 		),
 		app.P().Class("rv-route").Text(a.Origin+" → "+a.Destination+"; "+a.Vehicle),
 		app.Dl().Class("rv-dl").Body(
-			item("rv-opened", "Opened", stampUTC(a.Opened)),
+			item("rv-opened", "Opened", rvStamp(a.Opened)),
 			item("rv-closed", "Closed", closed),
 			item("rv-chain", "Chain position", chain),
 			item("rv-brief", "Brief compared", brief),
@@ -82,11 +82,11 @@ func (r *review) renderOxygen(a *logbook.TransportAudit) app.UI {
 			name = l.Where
 		}
 		legs = append(legs, app.Tr().DataSet("leg", l.Index+1).Body(
-			app.Th().Scope("row").Text(itoa(l.Index+1)+" "+name),
+			app.Th().Scope("row").Text(rvItoa(l.Index+1)+" "+name),
 			app.Td().Text(l.Where),
 			app.Td().Class("alv-num-cell").Text(l.StartMinute.String()+"–"+l.EndMinute.String()),
-			app.Td().Class("alv-num-cell").Text(altitudeText(l.AltitudeFt, u.AltitudeUnit)),
-			app.Td().Text(deviceText(l.Device)),
+			app.Td().Class("alv-num-cell").Text(rvAltitude(l.AltitudeFt, u.AltitudeUnit)),
+			app.Td().Text(rvDevice(l.Device)),
 			app.Td().Class("alv-num-cell").Text(l.OxygenLpm.String()),
 			app.Td().Class("alv-num-cell").DataSet("col", "planned").Text(l.OxygenL.String()),
 		))
@@ -96,17 +96,17 @@ func (r *review) renderOxygen(a *logbook.TransportAudit) app.UI {
 		cyls = append(cyls, app.Tr().DataSet("cylinder", c.Label).Body(
 			app.Th().Scope("row").Text(c.Label),
 			app.Td().Text(c.Definition),
-			app.Td().Class("alv-num-cell").Text(itoa(c.Readings)),
-			app.Td().Class("alv-num-cell").Text(gaugeText(c.First, u.PressureUnit)),
-			app.Td().Class("alv-num-cell").Text(gaugeText(c.Last, u.PressureUnit)),
-			app.Td().Class("alv-num-cell").DataSet("col", "used").Body(amountUI("", c.UsedL)),
-			app.Td().Class("alv-num-cell").Text(gaugeText(c.AtArrival, u.PressureUnit)),
-			app.Td().Class("alv-num-cell").DataSet("col", "above").Body(amountUI("", c.UsableAtArrivalL)),
+			app.Td().Class("alv-num-cell").Text(rvItoa(c.Readings)),
+			app.Td().Class("alv-num-cell").Text(rvGauge(c.First, u.PressureUnit)),
+			app.Td().Class("alv-num-cell").Text(rvGauge(c.Last, u.PressureUnit)),
+			app.Td().Class("alv-num-cell").DataSet("col", "used").Body(rvAmount("", c.UsedL)),
+			app.Td().Class("alv-num-cell").Text(rvGauge(c.AtArrival, u.PressureUnit)),
+			app.Td().Class("alv-num-cell").DataSet("col", "above").Body(rvAmount("", c.UsableAtArrivalL)),
 		))
 	}
 	arrival := "No arrival recorded (handover, arrive or landing)."
 	if o.Arrival != nil {
-		arrival = "Arrival: " + o.ArrivalEvent + " at " + stampUTC(*o.Arrival) + " (" + o.ArrivalRecord + ")."
+		arrival = "Arrival: " + o.ArrivalEvent + " at " + rvStamp(*o.Arrival) + " (" + o.ArrivalRecord + ")."
 	}
 	changes := make([]app.UI, 0, len(o.PlannedChanges))
 	for _, c := range o.PlannedChanges {
@@ -127,11 +127,11 @@ func (r *review) renderOxygen(a *logbook.TransportAudit) app.UI {
 		app.Section().ID("rv-planned-card").Class("alv-card rv-card").Aria("labelledby", "rv-planned-title").Body(
 			app.H3().ID("rv-planned-title").Class("alv-card-title").Text("Oxygen planned (Brief)"),
 			app.Div().Class("alv-figures").Body(
-				figureUI("rv-planned", "Calculated need", o.PlannedL, "no reserve; rounded up"),
-				figureUI("rv-planned-reserve", "Needed with reserve", o.PlannedWithReserveL, "rounded up"),
-				figureUI("rv-planned-usable", "Usable on board as planned", o.PlannedUsableL, "rounded down"),
+				rvFigure("rv-planned", "Calculated need", o.PlannedL, "no reserve; rounded up"),
+				rvFigure("rv-planned-reserve", "Needed with reserve", o.PlannedWithReserveL, "rounded up"),
+				rvFigure("rv-planned-usable", "Usable on board as planned", o.PlannedUsableL, "rounded down"),
 				app.If(o.FinalBriefRecord != "", func() app.UI {
-					return figureUI("rv-final-planned", "Amended plan ("+o.FinalBriefRecord+")", o.FinalPlannedL, "calculated need")
+					return rvFigure("rv-final-planned", "Amended plan ("+o.FinalBriefRecord+")", o.FinalPlannedL, "calculated need")
 				}),
 			),
 			app.If(len(legs) > 0, func() app.UI {
@@ -151,7 +151,7 @@ func (r *review) renderOxygen(a *logbook.TransportAudit) app.UI {
 					),
 				)
 			}),
-			app.P().ID("rv-residual").Text("Safe residual "+residualText(o.ResidualPressure, u.PressureUnit)+" ("+o.ResidualSource+")."),
+			app.P().ID("rv-residual").Text("Safe residual "+rvResidual(o.ResidualPressure, u.PressureUnit)+" ("+o.ResidualSource+")."),
 			app.If(len(changes) > 0, func() app.UI {
 				return app.Ul().ID("rv-changes").Class("rv-list").Body(changes...)
 			}),
@@ -159,11 +159,11 @@ func (r *review) renderOxygen(a *logbook.TransportAudit) app.UI {
 		app.Section().ID("rv-used-card").Class("alv-card rv-card").Aria("labelledby", "rv-used-title").Body(
 			app.H3().ID("rv-used-title").Class("alv-card-title").Text("Oxygen used (gauge readings)"),
 			app.Div().Class("alv-figures").Body(
-				figureUI("rv-used", "Used, all cylinders", o.UsedL, "rounded up"),
-				figureUI("rv-ratio", "Used ÷ planned", o.Ratio, "1 = as planned"),
-				figureUI("rv-reserve", "Reserve at arrival", o.ReserveAtArrivalL, "above the residual; rounded down"),
-				figureUI("rv-reserve-required", "Policy reserve", o.ReserveRequiredL, "with reserve − calculated need"),
-				figureUI("rv-multiple", "Reserve ÷ policy", o.ReserveMultiple, "below 1 = breached"),
+				rvFigure("rv-used", "Used, all cylinders", o.UsedL, "rounded up"),
+				rvFigure("rv-ratio", "Used ÷ planned", o.Ratio, "1 = as planned"),
+				rvFigure("rv-reserve", "Reserve at arrival", o.ReserveAtArrivalL, "above the residual; rounded down"),
+				rvFigure("rv-reserve-required", "Policy reserve", o.ReserveRequiredL, "with reserve − calculated need"),
+				rvFigure("rv-multiple", "Reserve ÷ policy", o.ReserveMultiple, "below 1 = breached"),
 			),
 			app.P().ID("rv-arrival").Text(arrival),
 			app.If(len(cyls) > 0, func() app.UI {
@@ -201,7 +201,7 @@ func (r *review) renderCourse(a *logbook.TransportAudit) app.UI {
 		}
 		fio2, device, flow := "—", "—", "—"
 		if c.FiO2 != nil {
-			fio2 = changedFrom(c.FiO2Before) + c.FiO2.String()
+			fio2 = rvChangedFrom(c.FiO2Before) + c.FiO2.String()
 		}
 		if c.Device != "" {
 			device = c.Device
@@ -210,7 +210,7 @@ func (r *review) renderCourse(a *logbook.TransportAudit) app.UI {
 			}
 		}
 		if c.FlowLpm != nil {
-			flow = changedFrom(c.FlowBefore) + c.FlowLpm.String() + " L/min"
+			flow = rvChangedFrom(c.FlowBefore) + c.FlowLpm.String() + " L/min"
 		}
 		setup = append(setup, app.Tr().Body(
 			app.Td().Class("alv-num-cell").Text(c.Minute.String()),
@@ -231,16 +231,16 @@ func (r *review) renderCourse(a *logbook.TransportAudit) app.UI {
 	hasFiO2 := len(a.Timeline.FiO2) > 0
 	return app.Section().ID("rv-course").Class("alv-card rv-card").Aria("labelledby", "rv-course-title").Body(
 		app.H3().ID("rv-course-title").Class("alv-card-title").Text("Patient course"),
-		app.P().ID("rv-target").Text("SpO2 target "+pc.TargetPercent.String()+" % ("+pc.TargetSource+"); "+plural(pc.SpO2Readings, "SpO2 reading")+"."),
+		app.P().ID("rv-target").Text("SpO2 target "+pc.TargetPercent.String()+" % ("+pc.TargetSource+"); "+rvPlural(pc.SpO2Readings, "SpO2 reading")+"."),
 		app.Div().Class("alv-figures").Body(
-			figureUI("rv-lowest", "Lowest SpO2", pc.LowestSpO2, lowNote),
-			figureUI("rv-below", "Minutes below target", pc.MinutesBelowTarget, "each reading held until the next; rounded up"),
-			figureUI("rv-longest", "Longest run below", pc.LongestBelowMinutes, longNote),
-			figureUI("rv-observed", "Observed over", pc.ObservedMinutes, "first to last SpO2 reading"),
-			figureUI("rv-gap", "Longest gap between readings", pc.LongestGapMinutes, ""),
+			rvFigure("rv-lowest", "Lowest SpO2", pc.LowestSpO2, lowNote),
+			rvFigure("rv-below", "Minutes below target", pc.MinutesBelowTarget, "each reading held until the next; rounded up"),
+			rvFigure("rv-longest", "Longest run below", pc.LongestBelowMinutes, longNote),
+			rvFigure("rv-observed", "Observed over", pc.ObservedMinutes, "first to last SpO2 reading"),
+			rvFigure("rv-gap", "Longest gap between readings", pc.LongestGapMinutes, ""),
 		),
 		app.If(len(a.Timeline.SpO2Percent) > 0, func() app.UI {
-			return plotFigure(spo2Plot(a, u.AltitudeUnit))
+			return plotFigure(rvSpO2Plot(a, u.AltitudeUnit))
 		}).Else(func() app.UI {
 			return app.P().Class("alv-empty").Text("No SpO2 observation: no course to plot.")
 		}),
@@ -259,7 +259,7 @@ func (r *review) renderCourse(a *logbook.TransportAudit) app.UI {
 				),
 			)
 		}),
-		app.If(hasFiO2, func() app.UI { return plotFigure(fio2Plot(a, u.AltitudeUnit)) }),
+		app.If(hasFiO2, func() app.UI { return plotFigure(rvFiO2Plot(a, u.AltitudeUnit)) }),
 	)
 }
 
@@ -273,18 +273,18 @@ func (r *review) renderDeviations(a *logbook.TransportAudit) app.UI {
 		items = append(items, app.Li().Class("rv-dev").DataSet("code", d.Code).Body(
 			app.Div().Class("rv-dev-head").Body(
 				app.Span().Class("rv-code").Text(d.Code),
-				app.Span().Class("rv-dev-label").Text(deviationLabel(d.Code)),
+				app.Span().Class("rv-dev-label").Text(rvDeviationLabel(d.Code)),
 				app.Span().Class("rv-dev-rec").Text(rec),
 			),
 			app.P().Class("rv-dev-detail").Text(d.Detail),
-			app.P().Class("alv-note rv-dev-explain").Text(deviationTexts[d.Code].Explain),
+			app.P().Class("alv-note rv-dev-explain").Text(rvDeviationTexts[d.Code].Explain),
 		))
 	}
 	for _, p := range a.Problems {
 		items = append(items, app.Li().Class("rv-dev").Body(app.P().Class("alv-error").Text("Unreadable: "+p)))
 	}
 	return app.Section().ID("rv-deviations").Class("alv-card rv-card").Aria("labelledby", "rv-dev-title").Body(
-		app.H3().ID("rv-dev-title").Class("alv-card-title").Text("Deviations ("+itoa(len(a.Deviations))+")"),
+		app.H3().ID("rv-dev-title").Class("alv-card-title").Text("Deviations ("+rvItoa(len(a.Deviations))+")"),
 		app.If(len(items) > 0, func() app.UI { return app.Ul().Class("rv-devs").Body(items...) }).
 			Else(func() app.UI { return app.P().Class("alv-empty").Text("No deviation found.") }),
 	)
@@ -306,15 +306,15 @@ func (r *review) renderNotComputable(a *logbook.TransportAudit) app.UI {
 	)
 }
 
-// changedFrom writes "0.32 → " before a new value, or nothing for the first.
-func changedFrom(n *physio.Number) string {
+// rvChangedFrom writes "0.32 → " before a new value, or nothing for the first.
+func rvChangedFrom(n *physio.Number) string {
 	if n == nil {
 		return ""
 	}
 	return n.String() + " → "
 }
 
-// routeText writes origin → destination.
-func routeText(a *logbook.TransportAudit) string {
+// rvRoute writes origin → destination.
+func rvRoute(a *logbook.TransportAudit) string {
 	return strings.TrimSpace(a.Origin + " → " + a.Destination)
 }
