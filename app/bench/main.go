@@ -1,0 +1,127 @@
+//go:build !wasm
+
+// Command bench measures Alvea against the go-app floor (testdata/floor: a
+// program with one heading and nothing else) and checks the budgets of the
+// speed and size issue. It builds both with the flags make uses, in one
+// run, then measures:
+//
+//   - app.wasm raw, gzip and brotli (the copies the server sends);
+//   - the bytes a first visit transfers (counted on the wire, the service
+//     worker's precache included);
+//   - first visit and warm start (a reload served by the service worker) to
+//     interactive, in headless Chromium at 1x and 4x CPU throttle;
+//   - the Brief's recompute latency while typing, at 4x;
+//   - the vault in Chromium (unlock, append one record, open and list
+//     10 000 records) and natively (go test -bench in app/logbook);
+//   - the physio and plan benchmarks (go test -bench).
+//
+// It prints a markdown table with each figure for both programs and the
+// ratio Alvea / floor, and writes it to dist/bench.md. Timings are
+// medians with their min and max; nothing here is a pass/fail test. Run it
+// with make bench (go run ./app/bench).
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"os"
+	"path/filepath"
+	"time"
+)
+
+var (
+	runs     = flag.Int("runs", 5, "runs of each start-up timing (at least 5 for the report)")
+	out      = flag.String("out", "dist/bench.md", "markdown file to write")
+	samples  = flag.Int("samples", 60, "keystrokes timed in the Brief")
+	records  = flag.Int("records", 10000, "records in the vault listed in Chromium")
+	skipNat  = flag.Bool("skip-native", false, "leave out the go test -bench figures")
+	skipWeb  = flag.Bool("skip-browser", false, "leave out the Chromium figures")
+	keepWork = flag.Bool("keep", false, "keep the build directory (its path is printed)")
+)
+
+func main() {
+	flag.Parse()
+	if err := run(); err != nil {
+		fmt.Fprintln(os.Stderr, "bench:", err)
+		os.Exit(1)
+	}
+}
+
+func run() error {
+	if *runs < 1 {
+		return errors.New("-runs must be at least 1")
+	}
+	repo, err := findRepoRoot()
+	if err != nil {
+		return err
+	}
+	work, err := os.MkdirTemp("", "alvea-bench-")
+	if err != nil {
+		return err
+	}
+	if *keepWork {
+		fmt.Fprintln(os.Stderr, "bench: work directory", work)
+	} else {
+		defer os.RemoveAll(work)
+	}
+
+	r := &report{Started: time.Now(), Runs: *runs}
+	progress("building Alvea and the floor (%s)", buildFlagsText)
+	alvea, floor, err := buildBoth(repo, work)
+	if err != nil {
+		return err
+	}
+	r.Toolchain = toolchain()
+	progress("compressing app.wasm (cached by content after the first time)")
+	if err := sizes(alvea, floor, r); err != nil {
+		return err
+	}
+
+	if !*skipWeb {
+		if err := browserFigures(alvea, floor, r); err != nil {
+			return err
+		}
+	}
+	if !*skipNat {
+		if err := nativeFigures(repo, r); err != nil {
+			return err
+		}
+	}
+
+	md := r.markdown()
+	fmt.Print(md)
+	path := *out
+	if !filepath.IsAbs(path) {
+		path = filepath.Join(repo, path)
+	}
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		return err
+	}
+	if err := os.WriteFile(path, []byte(md), 0o644); err != nil {
+		return err
+	}
+	fmt.Fprintln(os.Stderr, "bench: wrote", path)
+	return nil
+}
+
+func progress(format string, args ...any) {
+	fmt.Fprintf(os.Stderr, "bench: "+format+"\n", args...)
+}
+
+func findRepoRoot() (string, error) {
+	dir, err := os.Getwd()
+	if err != nil {
+		return "", err
+	}
+	for {
+		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
+			return dir, nil
+		}
+		parent := filepath.Dir(dir)
+		if parent == dir {
+			return "", errors.New("go.mod not found above the working directory")
+		}
+		dir = parent
+	}
+}

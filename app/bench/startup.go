@@ -1,0 +1,194 @@
+//go:build !wasm
+
+package main
+
+import (
+	"errors"
+	"fmt"
+	"time"
+
+	"github.com/chromedp/chromedp"
+
+	"alvea/app/ui"
+)
+
+// interactiveProbe runs in every page before its scripts. It records, on
+// the page's own clock (milliseconds since the navigation started), when
+// go-app removes its loader — go-app does so once app.wasm has run its
+// first render, for Alvea and the floor alike — and when Alvea's frame
+// marks <html> as mounted. Nothing in either app is changed for it.
+var interactiveProbe = fmt.Sprintf(`(() => {
+	let seen = false;
+	const check = () => {
+		if (document.getElementById("app-wasm-loader")) { seen = true; return; }
+		if (seen && window.__benchLoaderGone === undefined) window.__benchLoaderGone = performance.now();
+	};
+	const obs = new MutationObserver((records) => {
+		for (const r of records) {
+			if (r.type === "attributes" && r.attributeName === %[1]q && window.__benchMounted === undefined &&
+				document.documentElement.getAttribute(%[1]q) === "wasm") window.__benchMounted = performance.now();
+		}
+		check();
+		if (window.__benchLoaderGone !== undefined && (window.__benchMounted !== undefined || !window.__benchExpectMount)) obs.disconnect();
+	});
+	obs.observe(document, {childList: true, subtree: true, attributes: true, attributeFilter: [%[1]q]});
+})();`, ui.ReadyAttr)
+
+// interactiveExpr is the time to interactive once known: the loader gone
+// and, for Alvea, the frame mounted (the later of the two).
+func interactiveExpr(alvea bool) string {
+	if alvea {
+		return `(window.__benchLoaderGone !== undefined && window.__benchMounted !== undefined) ? Math.max(window.__benchLoaderGone, window.__benchMounted) : -1`
+	}
+	return `window.__benchLoaderGone !== undefined ? window.__benchLoaderGone : -1`
+}
+
+func waitInteractive(c *chrome, alvea bool) (float64, error) {
+	deadline := time.Now().Add(120 * time.Second)
+	for {
+		v, err := evalJS[float64](c, interactiveExpr(alvea))
+		if err == nil && v >= 0 {
+			return v, nil
+		}
+		if time.Now().After(deadline) {
+			if err == nil {
+				err = errors.New("timed out")
+			}
+			return 0, fmt.Errorf("waiting for the app to be interactive: %w", err)
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+}
+
+// quiet waits until p's server has sent nothing for a second (the service
+// worker's precache done) and returns the bytes sent since from.
+func (p *program) quiet(from int64) int64 {
+	last := p.bytesWritten.Load()
+	stable := time.Now()
+	for time.Since(stable) < time.Second {
+		time.Sleep(100 * time.Millisecond)
+		if n := p.bytesWritten.Load(); n != last {
+			last, stable = n, time.Now()
+		}
+	}
+	return last - from
+}
+
+type startFigures struct {
+	first, warm          []float64 // ms
+	firstBytes, warmByte []float64
+}
+
+// startTimes measures p at the CPU throttle rate: runs first visits, each
+// in a fresh profile (nothing cached, no service worker), then runs warm
+// starts in the last profile: reloads served by the service worker.
+func startTimes(p *program, rate float64, runs int) (*startFigures, error) {
+	alvea := p.Name == "Alvea"
+	probe := interactiveProbe
+	if alvea {
+		probe = "window.__benchExpectMount = true;\n" + probe
+	}
+	f := &startFigures{}
+	var last *chrome
+	defer func() {
+		if last != nil {
+			last.close()
+		}
+	}()
+	for i := 0; i < runs; i++ {
+		if last != nil {
+			last.close()
+		}
+		c, err := newChrome()
+		if err != nil {
+			return nil, err
+		}
+		last = c
+		if err := c.onEveryPage(probe); err != nil {
+			return nil, err
+		}
+		if err := c.throttle(rate); err != nil {
+			return nil, err
+		}
+		from := p.bytesWritten.Load()
+		if err := c.do(120*time.Second, chromedp.Navigate(p.origin+"/")); err != nil {
+			return nil, fmt.Errorf("%s first visit: %w", p.Name, err)
+		}
+		ms, err := waitInteractive(c, alvea)
+		if err != nil {
+			return nil, fmt.Errorf("%s first visit: %w", p.Name, err)
+		}
+		f.first = append(f.first, ms)
+		// The service worker active means its precache is done.
+		if _, err := evalJS[bool](c, `navigator.serviceWorker.ready.then(() => true)`); err != nil {
+			return nil, fmt.Errorf("%s: service worker: %w", p.Name, err)
+		}
+		f.firstBytes = append(f.firstBytes, float64(p.quiet(from)))
+	}
+	for i := 0; i < runs; i++ {
+		from := p.bytesWritten.Load()
+		if err := last.do(120*time.Second, chromedp.Reload()); err != nil {
+			return nil, fmt.Errorf("%s warm start: %w", p.Name, err)
+		}
+		ms, err := waitInteractive(last, alvea)
+		if err != nil {
+			return nil, fmt.Errorf("%s warm start: %w", p.Name, err)
+		}
+		controlled, err := evalJS[bool](last, `navigator.serviceWorker.controller !== null`)
+		if err != nil || !controlled {
+			return nil, fmt.Errorf("%s warm start: the page is not served by the service worker (%v)", p.Name, err)
+		}
+		f.warm = append(f.warm, ms)
+		f.warmByte = append(f.warmByte, float64(p.quiet(from)))
+	}
+	return f, nil
+}
+
+// browserFigures runs every Chromium measurement.
+func browserFigures(alvea, floor *program, r *report) error {
+	for _, p := range []*program{alvea, floor} {
+		if err := p.start(); err != nil {
+			return err
+		}
+		defer p.stop()
+	}
+	type key struct {
+		p    *program
+		rate float64
+	}
+	figs := map[key]*startFigures{}
+	for _, rate := range []float64{1, 4} {
+		for _, p := range []*program{alvea, floor} {
+			progress("%s: %d first visits and %d warm starts at %gx CPU throttle", p.Name, *runs, *runs, rate)
+			f, err := startTimes(p, rate, *runs)
+			if err != nil {
+				return err
+			}
+			figs[key{p, rate}] = f
+		}
+	}
+
+	r.add(section("transfer (bytes on the wire, compressed, page and service worker)"))
+	first := row{Name: "first visit", Unit: "B", A: summary(figs[key{alvea, 1}].firstBytes), F: summary(figs[key{floor, 1}].firstBytes)}
+	first.Budget = &budget{Text: "≤ 3.0 MB", Met: first.A.Max <= 3.0e6}
+	r.add(first)
+	r.add(row{Name: "warm start (reload)", Unit: "B", A: summary(figs[key{alvea, 1}].warmByte), F: summary(figs[key{floor, 1}].warmByte)})
+
+	r.add(section("start to interactive (ms from navigation)"))
+	for _, rate := range []float64{1, 4} {
+		a, f := figs[key{alvea, rate}], figs[key{floor, rate}]
+		x := row{Name: fmt.Sprintf("first visit, %gx CPU", rate), Unit: "ms", A: summary(a.first), F: summary(f.first)}
+		x.Budget = &budget{Text: "≤ 1.3 × floor", Met: x.A.Median <= 1.3*x.F.Median}
+		r.add(x)
+		y := row{Name: fmt.Sprintf("warm start (service worker), %gx CPU", rate), Unit: "ms", A: summary(a.warm), F: summary(f.warm)}
+		y.Budget = &budget{Text: "≤ 1.2 × floor", Met: y.A.Median <= 1.2*y.F.Median}
+		r.add(y)
+	}
+	r.note("Interactive: go-app has removed its loader (app.wasm has run its first render) and, for Alvea, the frame has set %s=\"wasm\" on <html> in OnMount; read on the page's clock from the start of the navigation. First visits each use a fresh profile; warm starts are reloads in the last of them, every resource served by the service worker.", ui.ReadyAttr)
+	r.note("Both programs are served the same way (the server package: app.wasm negotiated by Accept-Encoding); the floor keeps go-app's own service worker. Bytes are counted by a proxy in front of each server: headers, the page's requests and the worker's precache.")
+
+	if err := briefLatency(alvea, r); err != nil {
+		return err
+	}
+	return vaultInBrowser(alvea, r)
+}
