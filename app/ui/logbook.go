@@ -120,9 +120,20 @@ func (l *logbookScreen) forget() {
 	l.view = viewList
 }
 
-// run does work in a goroutine (the vault blocks on storage and key
-// derivation) with the screen marked busy, then done on the UI goroutine.
+// run does work in a goroutine (the vault blocks on storage) with the
+// screen marked busy, then done on the UI goroutine.
 func (l *logbookScreen) run(ctx app.Context, busy string, work func(context.Context) error, done func(ctx app.Context, err error)) {
+	l.runWith(ctx, busy, 0, work, done)
+}
+
+// runPainted is run for work that holds the CPU (a key derivation): it
+// first lets the browser paint the busy state, since Go runs on the page's
+// one thread.
+func (l *logbookScreen) runPainted(ctx app.Context, busy string, work func(context.Context) error, done func(ctx app.Context, err error)) {
+	l.runWith(ctx, busy, 40*time.Millisecond, work, done)
+}
+
+func (l *logbookScreen) runWith(ctx app.Context, busy string, paint time.Duration, work func(context.Context) error, done func(ctx app.Context, err error)) {
 	if l.busy != "" {
 		return
 	}
@@ -131,9 +142,9 @@ func (l *logbookScreen) run(ctx app.Context, busy string, work func(context.Cont
 		ctx = l.mctx
 	}
 	ctx.Async(func() {
-		// Let the busy state paint before a key derivation holds the CPU
-		// (the browser runs Go on one thread).
-		time.Sleep(40 * time.Millisecond)
+		if paint > 0 {
+			time.Sleep(paint)
+		}
 		err := work(context.Background())
 		ctx.Dispatch(func(ctx app.Context) {
 			l.busy = ""

@@ -103,7 +103,7 @@ func (l *logbookScreen) create(ctx app.Context, e app.Event) {
 		return
 	}
 	pass := a.pass
-	l.run(ctx, "Creating the logbook (deriving the key)…", func(c context.Context) error {
+	l.runPainted(ctx, "Creating the logbook (deriving the key)…", func(c context.Context) error {
 		return l.session.Create(c, pass)
 	}, func(ctx app.Context, err error) {
 		if err != nil {
@@ -119,7 +119,7 @@ func (l *logbookScreen) create(ctx app.Context, e app.Event) {
 func (l *logbookScreen) unlock(ctx app.Context, e app.Event) {
 	e.PreventDefault()
 	pass := l.access.unlock
-	l.run(ctx, "Unlocking (deriving the key)…", func(c context.Context) error {
+	l.runPainted(ctx, "Unlocking (deriving the key)…", func(c context.Context) error {
 		return l.session.Unlock(c, pass)
 	}, func(ctx app.Context, err error) {
 		l.access.unlock = ""
@@ -136,7 +136,7 @@ func (l *logbookScreen) unlock(ctx app.Context, e app.Event) {
 func (l *logbookScreen) importBundle(ctx app.Context, e app.Event) {
 	e.PreventDefault()
 	pass := l.access.importPass
-	l.run(ctx, "Checking the bundle…", func(c context.Context) error {
+	l.runPainted(ctx, "Checking the bundle…", func(c context.Context) error {
 		data, err := lbReadFile(c, "lb-import-file")
 		if err != nil {
 			return err

@@ -123,7 +123,7 @@ func (l *logbookScreen) changePassphrase(ctx app.Context, e app.Event) {
 		return
 	}
 	cur, next := m.current, m.next
-	l.run(ctx, "Changing the passphrase (deriving keys)…", func(c context.Context) error {
+	l.runPainted(ctx, "Changing the passphrase (deriving keys)…", func(c context.Context) error {
 		return l.session.ChangePassphrase(c, cur, next)
 	}, func(ctx app.Context, err error) {
 		m.current = ""
