@@ -2,6 +2,7 @@ package ui
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"strings"
@@ -387,5 +388,92 @@ func TestSessionDraftStoreKeepsPatientOutOfPlainStorage(t *testing.T) {
 	s.Lock()
 	if d3, _, _ := ds.Load(ctx); d3.Patient.PaO2.T != "" {
 		t.Error("the patient block survived the lock")
+	}
+}
+
+// Start transport from the current Brief: the plan document, physio's
+// result for it and the engine version go into the open record; the
+// result is what physio.ComputePlan gives for that same document (one
+// engine for the screen, the log and the audit).
+func TestLogbookStartFromBrief(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	l, e := mountLogbook(t, s)
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
+	if err := draftStoreFor(s).Save(l.mctx, scenarioDraft()); err != nil {
+		t.Fatal(err)
+	}
+	l.prepareStart(l.mctx)
+	f := l.start
+	if f.snapshot == nil {
+		t.Fatalf("no snapshot: %s", f.briefNote)
+	}
+	if f.snapshot.EngineVersion != physio.EngineVersion {
+		t.Errorf("engine version %q", f.snapshot.EngineVersion)
+	}
+	doc, err := physio.ParsePlan(f.snapshot.Plan)
+	if err != nil {
+		t.Fatalf("the snapshot's plan does not parse: %v", err)
+	}
+	res, err := physio.ComputePlan(doc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	again, _ := json.Marshal(res)
+	if string(again) != string(f.snapshot.Result) {
+		t.Error("the snapshot's result is not what physio computes for its plan")
+	}
+	// The scenario has 3 D cylinders and its origin at 500 ft.
+	if got := lbCylindersText(f.cylinders); got != "D1 (size D), D2 (size D), D3 (size D)" {
+		t.Errorf("cylinders %q", got)
+	}
+	if f.originElev != "500 ft" || f.destElev != "3000 ft" {
+		t.Errorf("elevations %q, %q", f.originElev, f.destElev)
+	}
+	l.start.vehicle, l.start.origin, l.start.dest = "Jet", "Low field", "High field"
+	l.startTransport(l.mctx, noEvent)
+	e.ConsumeAll()
+	tr := l.record.transport
+	if tr == nil || len(tr.Briefs) != 1 || string(tr.Briefs[0].Value.Plan) != string(f.snapshot.Plan) || len(tr.Cylinders) != 3 {
+		t.Fatalf("the open record lacks the Brief snapshot or cylinders (problem %q)", l.problem)
+	}
+}
+
+func TestLogbookChangePassphrase(t *testing.T) {
+	store := logbook.NewMemStore()
+	s := testSession(store)
+	l, e := mountLogbook(t, s)
+	openTestTransport(t, l, e)
+	const next = "kettle whistling on the night ferry"
+	l.manage = manageForm{current: "not the passphrase at all", next: next, again: next}
+	l.changePassphrase(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.problem != "Wrong passphrase, or the vault is damaged. Nothing was changed." {
+		t.Errorf("wrong current passphrase: %q", l.problem)
+	}
+	l.manage = manageForm{current: uiTestPass, next: "password123", again: "password123"}
+	l.changePassphrase(l.mctx, noEvent)
+	if !strings.Contains(l.manage.nextMsg, "commonest") {
+		t.Errorf("weak new passphrase: %q", l.manage.nextMsg)
+	}
+	l.manage = manageForm{current: uiTestPass, next: next, again: next}
+	l.changePassphrase(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.problem != "" || !strings.Contains(l.status, "Passphrase changed") {
+		t.Fatalf("change: status %q, problem %q", l.status, l.problem)
+	}
+	// A fresh session on the same store: the old passphrase fails, the new
+	// one opens the same records.
+	s2 := testSession(store)
+	if err := s2.Unlock(context.Background(), uiTestPass); !errors.Is(err, logbook.ErrUnlock) {
+		t.Errorf("old passphrase after the change: %v", err)
+	}
+	if err := s2.Unlock(context.Background(), next); err != nil {
+		t.Fatalf("new passphrase: %v", err)
+	}
+	v, _ := s2.Vault()
+	if lst, err := v.List(context.Background()); err != nil || len(lst.Transports) != 1 {
+		t.Errorf("after the change: %v transports, err %v", lst, err)
 	}
 }
