@@ -9,7 +9,7 @@ TESTTIMEOUT ?= 30m
 # Test tools that are not Go modules: Debian packages (browser, and the
 # reference tools physio and the vault compare against) and axe-core from
 # npm, pinned, installed into an ignored folder.
-APT_TOOLS   := chromium:chromium units:units argon2:argon2 npm:npm
+APT_TOOLS   := chromium:chromium units:units argon2:argon2 npm:npm brotli:brotli
 AXE_VERSION := 4.10.3
 TOOLS_DIR   := .tools
 AXE_JS      := $(TOOLS_DIR)/node_modules/axe-core/axe.min.js
@@ -57,8 +57,13 @@ vet:
 test: deps vet wasm
 	$(GO) test -count=1 -timeout $(TESTTIMEOUT) ./...
 
-bench:
-	$(GO) test -run='^$$' -bench=. -benchmem ./...
+# Alvea against the go-app floor (testdata/floor), both built here with
+# FLAGS: sizes, transfer, start-up in Chromium, Brief keystrokes, the vault,
+# and every package's go test -bench figures. Prints the table and writes
+# dist/bench.md. BENCHFLAGS, e.g. -runs 7.
+BENCHFLAGS ?=
+bench: deps
+	$(GO) run ./app/bench $(BENCHFLAGS)
 
 fuzz:
 	@for pkg in $$($(GO) list ./...); do \

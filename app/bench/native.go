@@ -18,9 +18,9 @@ func nativeFigures(repo string, r *report) error {
 	groups := []struct {
 		title, pkg, pattern string
 	}{
-		{"vault, native (go test -bench ./app/logbook)", "./app/logbook", "^Benchmark(Unlock|Append|OpenAndList10000)$"},
-		{"Brief recompute, native (go test -bench ./app/ui)", "./app/ui", "^BenchmarkBriefRecompute$"},
-		{"physio and plan (go test -bench ./physio)", "./physio", "."},
+		{"app/logbook benchmarks, native: the vault and the audit", "./app/logbook", "."},
+		{"app/ui benchmarks, native", "./app/ui", "."},
+		{"physio and plan benchmarks, native", "./physio", "."},
 	}
 	for _, g := range groups {
 		progress("go test -bench %s %s", g.pattern, g.pkg)

@@ -310,3 +310,28 @@ func containsFold(values []string, want string) bool {
 	}
 	return false
 }
+
+// The worker's precache revalidates rather than reloads: the app.wasm the
+// page has just downloaded is confirmed by its ETag (the version) and taken
+// from the HTTP cache, not downloaded a second time.
+func TestWorkerPrecacheRevalidates(t *testing.T) {
+	_, srv, _ := compressRoot(t)
+	_, worker := fetch(t, srv, "GET", "/app-worker.js", "")
+	if !strings.Contains(string(worker), `cache: "no-cache"`) || strings.Contains(string(worker), `cache: "reload"`) {
+		t.Error(`the precache should use cache: "no-cache", not "reload"`)
+	}
+	// A request carrying the served ETag gets 304 Not Modified.
+	res, _ := fetch(t, srv, "GET", "/web/app.wasm", "br")
+	etag := res.Header.Get("ETag")
+	req, _ := http.NewRequest("GET", srv.URL+"/web/app.wasm", nil)
+	req.Header.Set("If-None-Match", etag)
+	req.Header.Set("Accept-Encoding", "br")
+	again, err := (&http.Client{Transport: &http.Transport{DisableCompression: true}}).Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	again.Body.Close()
+	if etag == "" || again.StatusCode != http.StatusNotModified {
+		t.Errorf("ETag %q, revalidation answered %d, want 304", etag, again.StatusCode)
+	}
+}

@@ -17,9 +17,13 @@ self.addEventListener("install", (event) => {
 
 async function precache() {
   const cache = await caches.open(cacheName);
-  // cache: "reload" skips the HTTP cache so a version never mixes files.
+  // cache: "no-cache" revalidates each file with the server: a copy the
+  // page has just downloaded (app.wasm above all) is taken from the HTTP
+  // cache when the server confirms it is current (its ETag is the
+  // version), instead of being downloaded a second time; any other copy is
+  // fetched anew, so a version never mixes files.
   await cache.addAll(
-    resourcesToCache.map((url) => new Request(url, { cache: "reload" }))
+    resourcesToCache.map((url) => new Request(url, { cache: "no-cache" }))
   );
 }
 
