@@ -702,3 +702,42 @@ func TestLogbookUnlockAndListTimings(t *testing.T) {
 	t.Logf("Chromium, Argon2id m=64 MiB t=5 p=1: unlock (tap to key derived) %v", unlockTimes)
 	t.Logf("Chromium, open and list %d records (%d transports) after unlock: %v", n, n/10, listTimes)
 }
+
+// Two tabs on the same vault append in turn: the second tab's record
+// number is taken, IndexedDB refuses it (ConstraintError, no overwrite),
+// the vault re-reads the chain and appends after it. Both records are
+// there and the vault verifies.
+func TestLogbookTwoTabsAppend(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	a, closeA := b.tab()
+	defer closeA()
+	a.openLogbook(srv.URL("/logbook"))
+	a.createVault(testPass)
+	a.startTransport("Fixed wing", "North strip", "South base")
+	c, closeC := b.tab()
+	defer closeC()
+	c.openLogbook(srv.URL("/logbook"))
+	c.unlock(testPass)
+	c.waitLB("the list", `document.querySelector("#lb-list tbody button") !== null`, 20*time.Second)
+	c.tap("#lb-list tbody button")
+	c.waitLB("the timeline", `document.querySelector("#lb-note-text") !== null && !document.querySelector(".lb-busy")`, 20*time.Second)
+	// Tab a appends R2; tab c still believes R1 is the last.
+	a.typeInto("#lb-note-text", "from the first tab")
+	a.tap("#lb-note-go")
+	a.waitSeqs(2)
+	c.typeInto("#lb-note-text", "from the second tab")
+	c.tap("#lb-note-go")
+	c.waitSeqs(3)
+	tl := c.timelineText()
+	if !strings.Contains(tl, "from the first tab") || !strings.Contains(tl, "from the second tab") {
+		t.Errorf("timeline after two tabs:\n%s", tl)
+	}
+	c.tap("#lb-nav-manage")
+	c.waitLB("the vault controls", `document.querySelector("#lb-verify") !== null`, 10*time.Second)
+	c.tap("#lb-verify")
+	c.waitLB("the check", `document.querySelector("#lb-verify-result") !== null`, 30*time.Second)
+	if got := c.text("#lb-verify-result"); got != "Every record checked: no problem found." {
+		t.Errorf("check = %q", got)
+	}
+}
