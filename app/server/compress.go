@@ -11,6 +11,7 @@ import (
 	"net/http"
 	"os"
 	"path/filepath"
+	"sort"
 	"strconv"
 	"strings"
 	"sync"
@@ -218,6 +219,8 @@ func readCached(sum string, enc Encoding) ([]byte, bool) {
 	if hex.EncodeToString(h[:]) != sum {
 		return nil, false
 	}
+	now := time.Now()
+	os.Chtimes(cachePath(sum, enc), now, now) // used: kept by pruneCache
 	return b, true
 }
 
@@ -242,6 +245,39 @@ func writeCached(sum string, enc Encoding, b []byte) {
 	}
 	if err := os.Rename(f.Name(), cachePath(sum, enc)); err != nil {
 		os.Remove(f.Name())
+	}
+	pruneCache(cacheKeep)
+}
+
+// cacheKeep is how many files the cache keeps: the copies of the last few
+// builds (two per build).
+const cacheKeep = 12
+
+// pruneCache removes all but the keep most recently used files of the
+// cache (readCached marks a file used).
+func pruneCache(keep int) {
+	entries, err := os.ReadDir(CacheDir)
+	if err != nil {
+		return
+	}
+	type file struct {
+		path string
+		used time.Time
+	}
+	var files []file
+	for _, e := range entries {
+		info, err := e.Info()
+		if err != nil || !info.Mode().IsRegular() {
+			continue
+		}
+		files = append(files, file{filepath.Join(CacheDir, e.Name()), info.ModTime()})
+	}
+	if len(files) <= keep {
+		return
+	}
+	sort.Slice(files, func(i, j int) bool { return files[i].used.After(files[j].used) })
+	for _, f := range files[keep:] {
+		os.Remove(f.path)
 	}
 }
 

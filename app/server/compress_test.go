@@ -13,6 +13,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 )
 
 // wasmLike returns a stand-in app.wasm of about 200 kB: the wasm header
@@ -333,5 +334,28 @@ func TestWorkerPrecacheRevalidates(t *testing.T) {
 	again.Body.Close()
 	if etag == "" || again.StatusCode != http.StatusNotModified {
 		t.Errorf("ETag %q, revalidation answered %d, want 304", etag, again.StatusCode)
+	}
+}
+
+// The cache keeps the most recently used files only.
+func TestCachePrune(t *testing.T) {
+	old := CacheDir
+	CacheDir = t.TempDir()
+	defer func() { CacheDir = old }()
+	base := time.Now().Add(-time.Hour)
+	for i := 0; i < 5; i++ {
+		p := filepath.Join(CacheDir, fmt.Sprintf("f%d.br", i))
+		os.WriteFile(p, []byte("x"), 0o644)
+		at := base.Add(time.Duration(i) * time.Minute)
+		os.Chtimes(p, at, at)
+	}
+	pruneCache(2)
+	entries, _ := os.ReadDir(CacheDir)
+	var names []string
+	for _, e := range entries {
+		names = append(names, e.Name())
+	}
+	if strings.Join(names, " ") != "f3.br f4.br" {
+		t.Errorf("kept %v, want the two most recent (f3.br f4.br)", names)
 	}
 }
