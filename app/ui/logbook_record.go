@@ -79,6 +79,8 @@ func (l *logbookScreen) loadTransport(ctx app.Context) {
 func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logbook.Entry, error), onSaved func()) {
 	r := &l.record
 	if l.busy != "" {
+		// Never drop a tap silently: the entry stays in its form.
+		l.problem = "Not saved yet: the logbook is busy (" + strings.TrimSuffix(l.busy, "…") + "). Your entry is still here; tap save again in a moment."
 		return
 	}
 	e, err := build()
