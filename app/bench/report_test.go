@@ -78,3 +78,35 @@ func TestMarkdownBudgets(t *testing.T) {
 		}
 	}
 }
+
+// A module written by hand in the binary format of the WebAssembly Core
+// Specification (§5.5): one imported function, two defined ones with
+// bodies of 2 and 4 bytes, a data section of 3 bytes and a name section
+// naming functions 1 and 2.
+func TestReadWasm(t *testing.T) {
+	mod := []byte("\x00asm\x01\x00\x00\x00")
+	section := func(id byte, payload ...byte) {
+		mod = append(mod, id, byte(len(payload)))
+		mod = append(mod, payload...)
+	}
+	section(1, 1, 0x60, 0, 0)           // type: () -> ()
+	section(2, 1, 1, 'm', 1, 'f', 0, 0) // import m.f, function of type 0
+	section(3, 2, 0, 0)                 // two functions of type 0
+	section(10, 2, 2, 0, 0x0b, 4, 0, 0x01, 0x01, 0x0b)
+	section(11, 0, 0, 0)
+	names := []byte{1, 11, 2, 1, 3, 'a', '.', 'x', 2, 3, 'b', '.', 'y'}
+	section(0, append([]byte{4, 'n', 'a', 'm', 'e'}, names...)...)
+	bodies, got, imported, data, err := readWasm(mod)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if imported != 1 || len(bodies) != 2 || bodies[0] != 2 || bodies[1] != 4 || data != 3 {
+		t.Errorf("imported %d, bodies %v, data %d", imported, bodies, data)
+	}
+	if got[1] != "a.x" || got[2] != "b.y" {
+		t.Errorf("names %v", got)
+	}
+	if _, _, _, _, err := readWasm(mod[:len(mod)-3]); err == nil {
+		t.Error("a truncated module was read")
+	}
+}
