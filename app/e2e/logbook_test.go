@@ -591,6 +591,13 @@ func (m *memStore) Body(_ context.Context, seq uint64) ([]byte, error) {
 }
 func (m *memStore) Clear(context.Context) error { *m = memStore{}; return nil }
 
+// Side slots are not copied into the browser (seedVault writes records).
+func (m *memStore) PutSide(context.Context, string, []byte) error { return nil }
+func (m *memStore) GetSide(_ context.Context, name string) ([]byte, error) {
+	return nil, logbook.SideNotFoundError(name)
+}
+func (m *memStore) DeleteSide(context.Context, string) error { return nil }
+
 // seedVault builds natively a vault of n records (transports of 10 records
 // each: open, 8 entries, close) with the default key derivation, and
 // writes its sealed bytes into the page's IndexedDB with the layout of

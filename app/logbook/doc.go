@@ -56,7 +56,8 @@
 // vague ErrUnlock). ChangePassphrase re-wraps the data key only.
 //
 // HKDF-SHA-256 derives from the data key one key to seal records, one to
-// authenticate the chain head and one for bundle checks. Each record is two
+// authenticate the chain head, one for bundle checks and one for the draft
+// slot. Each record is two
 // XChaCha20-Poly1305 blobs with fresh random 24-byte nonces and the vault id
 // and sequence number as additional data: a small index (transport,
 // kind, time, vehicle, route, flags, the previous record's link and the
@@ -73,12 +74,22 @@
 // for a full check (Verify).
 //
 // Lock zeroes the key bytes and drops everything decrypted; the vault locks
-// itself after DefaultIdleLock without use (SetAutoLock, Touch).
+// itself after DefaultIdleLock without use (SetAutoLock, Touch; SetClock
+// lets tests drive the idle time).
+//
+// # Draft slot
+//
+// SaveDraft, LoadDraft and ClearDraft keep one sealed blob beside the
+// records (the Brief's patient block while the crew fills it in), under a
+// fourth HKDF key, in a store side slot (Store.PutSide). It is overwritten,
+// never appended, chained, listed, audited or exported; draft.go says why
+// that leaves the chain as strong as before.
 //
 // # Stores
 //
-// Store keeps only ciphertext under numeric keys: NewMemStore, the
-// crash-safe append-only OpenFileStore, and idb.Store in the browser.
+// Store keeps only ciphertext under numeric keys (and named side slots):
+// NewMemStore, the crash-safe append-only OpenFileStore, and idb.Store in
+// the browser.
 //
 // # Bundles
 //

@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"sync"
 	"syscall"
 )
@@ -20,6 +21,8 @@ import (
 //	frame  u32 payload length (big-endian) | payload | u32 CRC-32C of payload
 //	payload 'H' header bytes                          (header written)
 //	        'R' seq u64, index, body, head (uvarint-length bytes each)
+//	        'S' side-slot name, blob (uvarint-length bytes each; replaces)
+//	        'D' side-slot name (uvarint-length bytes; the slot is emptied)
 //
 // Every write appends one frame and fsyncs before returning, so a record
 // and its head are written together or not at all. At open, a final frame
@@ -51,6 +54,7 @@ type FileStore struct {
 	header  []byte
 	head    []byte
 	records map[uint64]Sealed
+	side    map[string][]byte
 	skipped int // damaged frames skipped in the middle
 }
 
@@ -62,7 +66,7 @@ func OpenFileStore(path string) (*FileStore, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &FileStore{f: f, records: map[uint64]Sealed{}}
+	s := &FileStore{f: f, records: map[uint64]Sealed{}, side: map[string][]byte{}}
 	data, err := os.ReadFile(path)
 	if err != nil {
 		f.Close()
@@ -144,6 +148,24 @@ func (s *FileStore) apply(p []byte) bool {
 		}
 		s.records[seq] = Sealed{Seq: seq, Index: slices.Clone(idx), Body: slices.Clone(body)}
 		s.head = slices.Clone(head)
+		return true
+	case 'S', 'D':
+		name := string(r.bytes(MaxSideName))
+		var blob []byte
+		if p[0] == 'S' {
+			blob = r.bytes(maxSideSize)
+		}
+		if r.done() != nil || CheckSideName(name) != nil {
+			return false
+		}
+		if s.side == nil {
+			s.side = map[string][]byte{}
+		}
+		if p[0] == 'S' {
+			s.side[name] = slices.Clone(blob)
+		} else {
+			delete(s.side, name)
+		}
 		return true
 	}
 	return false
@@ -282,6 +304,56 @@ func (s *FileStore) Clear(ctx context.Context) error {
 		return err
 	}
 	s.end = int64(len(fh))
-	s.header, s.head, s.records, s.skipped = nil, nil, map[uint64]Sealed{}, 0
+	s.header, s.head, s.records, s.side, s.skipped = nil, nil, map[uint64]Sealed{}, map[string][]byte{}, 0
+	return nil
+}
+
+func (s *FileStore) PutSide(ctx context.Context, name string, blob []byte) error {
+	if err := CheckSideName(name); err != nil {
+		return err
+	}
+	if len(blob) > maxSideSize {
+		return &FieldError{Field: "side slot " + name, Value: strconv.Itoa(len(blob)) + " bytes", Allowed: "at most " + strconv.Itoa(maxSideSize) + " bytes"}
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	p := putBytes([]byte{'S'}, []byte(name))
+	p = putBytes(p, blob)
+	if err := s.appendFrame(p); err != nil {
+		return err
+	}
+	s.side[name] = slices.Clone(blob)
+	return nil
+}
+
+func (s *FileStore) GetSide(ctx context.Context, name string) ([]byte, error) {
+	if err := CheckSideName(name); err != nil {
+		return nil, err
+	}
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	b, ok := s.side[name]
+	if !ok {
+		return nil, SideNotFoundError(name)
+	}
+	return slices.Clone(b), nil
+}
+
+func (s *FileStore) DeleteSide(ctx context.Context, name string) error {
+	if err := CheckSideName(name); err != nil {
+		return err
+	}
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if _, ok := s.side[name]; !ok {
+		return nil
+	}
+	if err := s.appendFrame(putBytes([]byte{'D'}, []byte(name))); err != nil {
+		return err
+	}
+	delete(s.side, name)
 	return nil
 }

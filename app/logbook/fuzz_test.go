@@ -73,6 +73,8 @@ func FuzzFileStoreScan(f *testing.F) {
 	fs, _ := OpenFileStore(path)
 	v, _ := Create(ctx, fs, testPass, MinimumKDF)
 	sampleTransport(f, v, t0)
+	v.SaveDraft(ctx, []byte("draft")) // side frames 'S' and 'D' too
+	v.ClearDraft(ctx)
 	fs.Close()
 	seed, _ := os.ReadFile(path)
 	f.Add(seed)

@@ -11,7 +11,7 @@ import (
 	"golang.org/x/crypto/chacha20poly1305"
 )
 
-// Keys. The random 256-bit data key never leaves memory unwrapped; three
+// Keys. The random 256-bit data key never leaves memory unwrapped; four
 // subkeys are derived from it with HKDF-SHA-256 (RFC 5869), one per purpose,
 // so a key is never used for two jobs.
 type keys struct {
@@ -19,6 +19,7 @@ type keys struct {
 	seal   []byte // XChaCha20-Poly1305 key for record indexes and bodies
 	head   []byte // HMAC-SHA-256 key of the chain head
 	bundle []byte // HMAC-SHA-256 key over a whole export bundle
+	draft  []byte // XChaCha20-Poly1305 key of the draft slot (draft.go)
 }
 
 func deriveKeys(data []byte) (*keys, error) {
@@ -27,7 +28,7 @@ func deriveKeys(data []byte) (*keys, error) {
 	for _, s := range []struct {
 		dst  *[]byte
 		info string
-	}{{&k.seal, "alvea v1 record seal"}, {&k.head, "alvea v1 chain head"}, {&k.bundle, "alvea v1 bundle"}} {
+	}{{&k.seal, "alvea v1 record seal"}, {&k.head, "alvea v1 chain head"}, {&k.bundle, "alvea v1 bundle"}, {&k.draft, "alvea v1 draft"}} {
 		if *s.dst, err = hkdf.Key(sha256.New, data, nil, s.info, keyLen); err != nil {
 			return nil, err
 		}
@@ -46,6 +47,7 @@ func (k *keys) wipe() {
 	clear(k.seal)
 	clear(k.head)
 	clear(k.bundle)
+	clear(k.draft)
 }
 
 // Sealed blob layout: 24-byte random nonce, then XChaCha20-Poly1305

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"slices"
+	"strconv"
 	"sync"
 )
 
@@ -46,9 +47,40 @@ type Store interface {
 	Index(ctx context.Context) ([]IndexItem, error)
 	// Body returns the sealed body of record seq, or ErrNotFound (wrapped).
 	Body(ctx context.Context, seq uint64) ([]byte, error)
-	// Clear removes the vault entirely. The vault calls it only to roll back
-	// an import that failed part-way.
+	// Clear removes the vault entirely, side slots included. The vault
+	// calls it only to roll back an import that failed part-way.
 	Clear(ctx context.Context) error
+
+	// Side slots: a few named blobs kept beside the records, outside the
+	// chain, each overwritten as a whole (the vault keeps its sealed Brief
+	// draft in one, see Vault.SaveDraft). Names are short ASCII
+	// (CheckSideName); blobs are ciphertext like everything else.
+
+	// PutSide durably writes blob under name, replacing what was there, all
+	// or nothing. ErrQuota (wrapped) when the medium is full.
+	PutSide(ctx context.Context, name string, blob []byte) error
+	// GetSide returns the blob under name, or ErrNotFound (wrapped).
+	GetSide(ctx context.Context, name string) ([]byte, error)
+	// DeleteSide removes the blob under name; an absent one is no error.
+	DeleteSide(ctx context.Context, name string) error
+}
+
+// MaxSideName is the longest side-slot name, in bytes.
+const MaxSideName = 32
+
+// CheckSideName reports whether name can name a side slot: 1 to
+// MaxSideName characters from a-z, 0-9 and '-'. Stores call it so that a
+// slot name can never collide with a record or header key.
+func CheckSideName(name string) error {
+	if name == "" || len(name) > MaxSideName {
+		return &FieldError{Field: "side slot name", Value: strconv.Quote(name), Allowed: "1 to 32 characters a-z, 0-9, -"}
+	}
+	for _, c := range []byte(name) {
+		if !(c >= 'a' && c <= 'z' || c >= '0' && c <= '9' || c == '-') {
+			return &FieldError{Field: "side slot name", Value: strconv.Quote(name), Allowed: "1 to 32 characters a-z, 0-9, -"}
+		}
+	}
+	return nil
 }
 
 // StorageReporter is implemented by stores that can report on the medium
@@ -98,13 +130,14 @@ type memStore struct {
 	header  []byte
 	head    []byte
 	records map[uint64]Sealed
+	side    map[string][]byte
 }
 
 var _ Store = (*memStore)(nil)
 
 // NewMemStore returns an empty in-memory store (tests, bundles opened for
 // audit, and the CLI).
-func NewMemStore() Store { return &memStore{records: map[uint64]Sealed{}} }
+func NewMemStore() Store { return &memStore{records: map[uint64]Sealed{}, side: map[string][]byte{}} }
 
 func (m *memStore) Meta(ctx context.Context) ([]byte, []byte, error) {
 	m.mu.Lock()
@@ -160,7 +193,46 @@ func (m *memStore) Body(ctx context.Context, seq uint64) ([]byte, error) {
 func (m *memStore) Clear(ctx context.Context) error {
 	m.mu.Lock()
 	defer m.mu.Unlock()
-	m.header, m.head, m.records = nil, nil, map[uint64]Sealed{}
+	m.header, m.head, m.records, m.side = nil, nil, map[uint64]Sealed{}, map[string][]byte{}
+	return nil
+}
+
+func (m *memStore) PutSide(ctx context.Context, name string, blob []byte) error {
+	if err := CheckSideName(name); err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	if m.side == nil {
+		m.side = map[string][]byte{}
+	}
+	m.side[name] = slices.Clone(blob)
+	return nil
+}
+
+func (m *memStore) GetSide(ctx context.Context, name string) ([]byte, error) {
+	if err := CheckSideName(name); err != nil {
+		return nil, err
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	b, ok := m.side[name]
+	if !ok {
+		return nil, SideNotFoundError(name)
+	}
+	return slices.Clone(b), nil
+}
+
+func (m *memStore) DeleteSide(ctx context.Context, name string) error {
+	if err := CheckSideName(name); err != nil {
+		return err
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	delete(m.side, name)
 	return nil
 }
 
@@ -192,6 +264,15 @@ type notFoundError struct{ seq uint64 }
 
 func (e *notFoundError) Error() string { return "logbook: record " + RecordName(e.seq) + " not found" }
 func (e *notFoundError) Unwrap() error { return ErrNotFound }
+
+type sideNotFoundError struct{ name string }
+
+func (e *sideNotFoundError) Error() string { return "logbook: side slot " + e.name + " is empty" }
+func (e *sideNotFoundError) Unwrap() error { return ErrNotFound }
+
+// SideNotFoundError returns the error a Store gives for an empty side slot
+// (it unwraps to ErrNotFound).
+func SideNotFoundError(name string) error { return &sideNotFoundError{name} }
 
 // SeqExistsError and NotFoundError let other Store implementations (package
 // idb) return the same wrapped errors.

@@ -209,7 +209,29 @@ func (v *Vault) armTimer() {
 	if wait < time.Second {
 		wait = time.Second
 	}
-	v.timer = time.AfterFunc(wait, func() { v.LockIfIdle(time.Now()) })
+	now := v.now
+	v.timer = time.AfterFunc(wait, func() { v.LockIfIdle(now()) })
+}
+
+// SetClock replaces the clock the vault reads for its idle time (tests and
+// simulations drive the auto-lock with it; the default is time.Now). The
+// internal timer still waits in real time, then asks this clock.
+func (v *Vault) SetClock(now func() time.Time) {
+	if now == nil {
+		now = time.Now
+	}
+	v.mu.Lock()
+	defer v.mu.Unlock()
+	v.now = now
+	v.lastUse = now()
+	v.armTimer()
+}
+
+// IdleLock returns the auto-lock time in force (0 or less: never).
+func (v *Vault) IdleLock() time.Duration {
+	v.mu.Lock()
+	defer v.mu.Unlock()
+	return v.idle
 }
 
 // KDF returns the key-derivation settings in the header (zero until the

@@ -335,6 +335,34 @@ func TestAutoLock(t *testing.T) {
 	}
 }
 
+// The idle time is read from the vault's clock: use and Touch postpone the
+// lock, and the lock comes once the clock passes the idle time after the
+// last use.
+func TestAutoLockWithClock(t *testing.T) {
+	v, _ := newTestVault(t)
+	clock := t0
+	v.SetClock(func() time.Time { return clock })
+	v.SetAutoLock(time.Minute, nil)
+	if v.IdleLock() != time.Minute {
+		t.Errorf("IdleLock = %v", v.IdleLock())
+	}
+	clock = clock.Add(59 * time.Second)
+	v.Touch()
+	clock = clock.Add(59 * time.Second)
+	if v.LockIfIdle(clock) {
+		t.Fatal("locked 59 s after a touch")
+	}
+	if _, err := v.List(ctx); err != nil { // a use postpones it too
+		t.Fatal(err)
+	}
+	if v.LockIfIdle(clock.Add(59 * time.Second)) {
+		t.Fatal("locked 59 s after a use")
+	}
+	if !v.LockIfIdle(clock.Add(time.Minute)) || !v.Locked() {
+		t.Error("not locked one minute after the last use")
+	}
+}
+
 func TestListingFilter(t *testing.T) {
 	v, _ := newTestVault(t)
 	sampleTransport(t, v, t0)

@@ -3,9 +3,10 @@
 // exists so the package is visible to native tools.
 //
 // Layout: database "alvea-logbook", version 1, three object stores with
-// out-of-line keys: "meta" (keys "header" and "head"), "index" and "body"
-// (key: the record's sequence number). Values are Uint8Array ciphertext
-// only; no key or value carries readable patient data.
+// out-of-line keys: "meta" (keys "header", "head", and "side:NAME" for each
+// side slot, such as the sealed Brief draft "side:draft"), "index" and
+// "body" (key: the record's sequence number). Values are Uint8Array
+// ciphertext only; no key or value carries readable patient data.
 //
 // Every method waits for IndexedDB's request or transaction events (not
 // Promises) and must be called from a goroutine, never from inside a

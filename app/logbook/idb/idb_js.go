@@ -16,6 +16,10 @@ const (
 	storeBody  = "body"
 	keyHeader  = "header"
 	keyHead    = "head"
+	// sidePrefix + name keys a side slot in the meta store. Side names are
+	// a-z, 0-9 and '-' (logbook.CheckSideName), so no slot key can be
+	// "header" or "head".
+	sidePrefix = "side:"
 )
 
 // Store is the IndexedDB implementation of logbook.Store and
@@ -271,6 +275,48 @@ func (s *Store) Clear(ctx context.Context) error {
 	for _, n := range []string{storeIndex, storeBody, storeMeta} {
 		tx.Call("objectStore", n).Call("clear")
 	}
+	return await(ctx, tx, "complete", "error", "abort")
+}
+
+// PutSide writes a side-slot blob with put (it replaces) in its own
+// transaction, and returns after its complete event.
+func (s *Store) PutSide(ctx context.Context, name string, blob []byte) error {
+	if err := logbook.CheckSideName(name); err != nil {
+		return err
+	}
+	tx, err := s.tx("readwrite", storeMeta)
+	if err != nil {
+		return err
+	}
+	tx.Call("objectStore", storeMeta).Call("put", toJS(blob), sidePrefix+name)
+	return await(ctx, tx, "complete", "error", "abort")
+}
+
+// GetSide reads a side-slot blob.
+func (s *Store) GetSide(ctx context.Context, name string) ([]byte, error) {
+	if err := logbook.CheckSideName(name); err != nil {
+		return nil, err
+	}
+	v, err := s.get(ctx, storeMeta, sidePrefix+name)
+	if err != nil {
+		return nil, err
+	}
+	if v.IsUndefined() || v.IsNull() {
+		return nil, logbook.SideNotFoundError(name)
+	}
+	return toGo(v), nil
+}
+
+// DeleteSide removes a side-slot blob (delete of an absent key succeeds).
+func (s *Store) DeleteSide(ctx context.Context, name string) error {
+	if err := logbook.CheckSideName(name); err != nil {
+		return err
+	}
+	tx, err := s.tx("readwrite", storeMeta)
+	if err != nil {
+		return err
+	}
+	tx.Call("objectStore", storeMeta).Call("delete", sidePrefix+name)
 	return await(ctx, tx, "complete", "error", "abort")
 }
 
