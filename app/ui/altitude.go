@@ -16,10 +16,13 @@ const (
 	FieldAltDest       = "alt-dest"
 	FieldAltCruise     = "alt-cruise"
 	FieldAltDiff       = "alt-diff"
+	FieldAltCabinStat  = "alt-cabin-stated"
 	FieldAltCabinLimit = "alt-cabin-limit"
 	FieldAltFiO2       = "alt-fio2"
 	FieldAltPaCO2      = "alt-paco2"
 	FieldAltPaO2       = "alt-pao2-ground"
+	FieldAltRQ         = "alt-rq"
+	FieldAltTemp       = "alt-temp"
 	FieldAltCuffMl     = "alt-cuff-ml"
 	FieldAltPtxMl      = "alt-ptx-ml"
 	FieldAltCuffP      = "alt-cuff-p"
@@ -34,11 +37,13 @@ const (
 )
 
 // altField describes one input: its label, kind, the value it starts with
-// (in Unit) and its allowed range per unit.
+// (in Unit) and its allowed range per unit. An Optional field may be left
+// empty.
 type altField struct {
 	ID, Label, Kind string
 	Start, Unit     string // start value and the unit it is written in
 	Rules           map[string]rangeRule
+	Optional        bool
 }
 
 // Start values are a demonstration of our own (sea level to a 25 000 ft
@@ -46,34 +51,43 @@ type altField struct {
 // Brief draft gives the route and patient. The 8 000 ft cabin limit is
 // 14 CFR 25.841(a); the 10 mL cuff and 500 mL pneumothorax are the plan
 // engine's worked examples; 25 cmH2O is a common cuff setting (common
-// practice, from memory).
+// practice, from memory). RQ 0.8 and 37 °C are the plan engine's defaults
+// (common practice); their ranges are the plan document's (physio).
 var altFields = []altField{
-	{FieldAltOrigin, "Origin field elevation", kindAltitude, "0", UnitFeet, altitudeRules("Origin field elevation")},
-	{FieldAltDest, "Destination field elevation", kindAltitude, "0", UnitFeet, altitudeRules("Destination field elevation")},
-	{FieldAltCruise, "Cruise altitude", kindAltitude, "25000", UnitFeet, altitudeRules("Cruise altitude")},
-	{FieldAltDiff, "Maximum pressure differential (0: unpressurised)", kindDiff, "6", UnitPsi, map[string]rangeRule{
+	{ID: FieldAltOrigin, Label: "Origin field elevation", Kind: kindAltitude, Start: "0", Unit: UnitFeet, Rules: altitudeRules("Origin field elevation")},
+	{ID: FieldAltDest, Label: "Destination field elevation", Kind: kindAltitude, Start: "0", Unit: UnitFeet, Rules: altitudeRules("Destination field elevation")},
+	{ID: FieldAltCruise, Label: "Cruise altitude", Kind: kindAltitude, Start: "25000", Unit: UnitFeet, Rules: altitudeRules("Cruise altitude")},
+	{ID: FieldAltDiff, Label: "Maximum pressure differential (0: unpressurised)", Kind: kindDiff, Start: "6", Unit: UnitPsi, Rules: map[string]rangeRule{
 		UnitPsi: {Label: "Pressure differential", Min: "0", Max: "15", Unit: UnitPsi},
 		UnitBar: {Label: "Pressure differential", Min: "0", Max: "1.03", Unit: UnitBar},
 	}},
-	{FieldAltCabinLimit, "Cabin altitude limit", kindAltitude, "8000", UnitFeet, altitudeRules("Cabin altitude limit")},
-	{FieldAltFiO2, "FiO2 breathed on the ground", kindFixed, "0.21", "fraction", map[string]rangeRule{
+	{ID: FieldAltCabinStat, Label: "Cabin altitude stated by the pilot (optional)", Kind: kindAltitude, Unit: UnitFeet,
+		Rules: altitudeRules("Stated cabin altitude"), Optional: true},
+	{ID: FieldAltCabinLimit, Label: "Cabin altitude limit", Kind: kindAltitude, Start: "8000", Unit: UnitFeet, Rules: altitudeRules("Cabin altitude limit")},
+	{ID: FieldAltFiO2, Label: "FiO2 breathed on the ground", Kind: kindFixed, Start: "0.21", Unit: "fraction", Rules: map[string]rangeRule{
 		"fraction": {Label: "FiO2", Min: "0.21", Max: "1", Unit: "(fraction)"},
 	}},
-	{FieldAltPaCO2, "PaCO2 on the ground", kindGas, "40", UnitMmHg, map[string]rangeRule{
+	{ID: FieldAltPaCO2, Label: "PaCO2 on the ground", Kind: kindGas, Start: "40", Unit: UnitMmHg, Rules: map[string]rangeRule{
 		UnitMmHg: {Label: "PaCO2", Min: "10", Max: "150", Unit: UnitMmHg},
 		UnitKPa:  {Label: "PaCO2", Min: "1.4", Max: "19.9", Unit: UnitKPa},
 	}},
-	{FieldAltPaO2, "PaO2 on the ground (at the origin)", kindGas, "95", UnitMmHg, map[string]rangeRule{
-		UnitMmHg: {Label: "PaO2", Min: "20", Max: "600", Unit: UnitMmHg},
-		UnitKPa:  {Label: "PaO2", Min: "2.7", Max: "79.9", Unit: UnitKPa},
+	{ID: FieldAltPaO2, Label: "PaO2 on the ground", Kind: kindGas, Start: "95", Unit: UnitMmHg, Rules: map[string]rangeRule{
+		UnitMmHg: {Label: "PaO2", Min: "20", Max: "700", Unit: UnitMmHg},
+		UnitKPa:  {Label: "PaO2", Min: "2.7", Max: "93.3", Unit: UnitKPa},
 	}},
-	{FieldAltCuffMl, "Air in a tube cuff", kindFixed, "10", "mL", map[string]rangeRule{
+	{ID: FieldAltRQ, Label: "Respiratory quotient", Kind: kindFixed, Start: "0.8", Unit: "", Rules: map[string]rangeRule{
+		"": {Label: "Respiratory quotient", Min: "0.7", Max: "1", Unit: "(ratio)"},
+	}},
+	{ID: FieldAltTemp, Label: "Body temperature", Kind: kindFixed, Start: "37", Unit: "°C", Rules: map[string]rangeRule{
+		"°C": {Label: "Body temperature", Min: "25", Max: "45", Unit: "°C"},
+	}},
+	{ID: FieldAltCuffMl, Label: "Air in a tube cuff", Kind: kindFixed, Start: "10", Unit: "mL", Rules: map[string]rangeRule{
 		"mL": {Label: "Cuff volume", Min: "1", Max: "50", Unit: "mL"},
 	}},
-	{FieldAltPtxMl, "Pneumothorax volume", kindFixed, "500", "mL", map[string]rangeRule{
+	{ID: FieldAltPtxMl, Label: "Pneumothorax volume", Kind: kindFixed, Start: "500", Unit: "mL", Rules: map[string]rangeRule{
 		"mL": {Label: "Pneumothorax volume", Min: "1", Max: "5000", Unit: "mL"},
 	}},
-	{FieldAltCuffP, "Cuff pressure set on the ground", kindFixed, "25", "cmH2O", map[string]rangeRule{
+	{ID: FieldAltCuffP, Label: "Cuff pressure set on the ground", Kind: kindFixed, Start: "25", Unit: "cmH2O", Rules: map[string]rangeRule{
 		"cmH2O": {Label: "Cuff pressure", Min: "0", Max: "60", Unit: "cmH2O"},
 	}},
 }
@@ -97,7 +111,11 @@ type altitude struct {
 	text     map[string]string // each field as typed
 	unit     map[string]string // the unit each field was typed in
 	messages FieldErrors
-	fromPlan bool
+
+	atDestination bool   // the ground values were measured at the destination
+	routeFrom     bool   // the route came from the Brief draft
+	patientFrom   bool   // the patient came from the Brief draft
+	pao2Note      string // how the PaO2 field was filled, when not typed
 }
 
 func newAltitude() *altitude {
@@ -121,29 +139,74 @@ func (a *altitude) OnMount(ctx app.Context) {
 	ctx.ObserveState(SettingsKey, &a.settings).OnChange(a.showUnits)
 }
 
-// adoptDraft fills the route and patient from the Brief draft's plan.
+// adoptDraft fills the route and the patient from the Brief draft, each
+// when that part of the draft is complete.
 func (a *altitude) adoptDraft(ctx app.Context) {
-	doc, ok := draftPlan(ctx)
-	if !ok || doc == nil {
+	parts, ok := draftPlan(ctx)
+	if !ok {
+		return
+	}
+	a.adoptParts(parts)
+}
+
+func (a *altitude) adoptParts(parts draftParts) {
+	doc := parts.doc
+	if doc == nil {
 		return
 	}
 	set := func(id string, v *float64, unit string) {
 		if v != nil {
 			a.text[id], a.unit[id] = strconv.FormatFloat(*v, 'f', -1, 64), unit
+			delete(a.messages, id)
 		}
 	}
-	set(FieldAltOrigin, doc.Route.OriginElevationFt, UnitFeet)
-	set(FieldAltDest, doc.Route.DestinationElevationFt, UnitFeet)
-	set(FieldAltCruise, doc.Route.CruiseAltitudeFt, UnitFeet)
-	if doc.Route.MaxDifferentialPsi != nil {
-		set(FieldAltDiff, doc.Route.MaxDifferentialPsi, UnitPsi)
-	} else {
-		a.text[FieldAltDiff], a.unit[FieldAltDiff] = "0", UnitPsi
+	if parts.route {
+		r := doc.Route
+		set(FieldAltOrigin, r.OriginElevationFt, UnitFeet)
+		set(FieldAltDest, r.DestinationElevationFt, UnitFeet)
+		a.text[FieldAltCruise], a.unit[FieldAltCruise] = "", UnitFeet
+		set(FieldAltCruise, r.CruiseAltitudeFt, UnitFeet)
+		a.text[FieldAltDiff], a.unit[FieldAltDiff] = "0", UnitPsi // absent: unpressurised (the plan's rule)
+		set(FieldAltDiff, r.MaxDifferentialPsi, UnitPsi)
+		a.text[FieldAltCabinStat], a.unit[FieldAltCabinStat] = "", UnitFeet
+		set(FieldAltCabinStat, r.CabinAltitudeFt, UnitFeet)
+		a.routeFrom = true
 	}
-	set(FieldAltFiO2, doc.Patient.FiO2, "fraction")
-	set(FieldAltPaCO2, doc.Patient.PaCO2MmHg, UnitMmHg)
-	set(FieldAltPaO2, doc.Patient.PaO2MmHg, UnitMmHg)
-	a.fromPlan = true
+	if parts.patient && doc.Patient.FiO2 != nil {
+		pt := doc.Patient
+		// A value the Brief leaves out takes the plan engine's default.
+		def := func(v *float64, d float64) *float64 {
+			if v == nil {
+				return &d
+			}
+			return v
+		}
+		set(FieldAltFiO2, pt.FiO2, "fraction")
+		set(FieldAltPaCO2, def(pt.PaCO2MmHg, physio.DefaultPlanPaCO2MmHg), UnitMmHg)
+		set(FieldAltRQ, def(pt.RQ, physio.DefaultRQ), "")
+		set(FieldAltTemp, def(pt.TemperatureC, physio.DefaultPlanTemperatureC), "°C")
+		a.atDestination = pt.MeasuredAt == physio.WhereDestination
+		a.pao2Note = ""
+		switch {
+		case pt.PaO2MmHg != nil:
+			set(FieldAltPaO2, pt.PaO2MmHg, UnitMmHg)
+		case pt.SpO2Percent != nil:
+			// As the plan engine does: PaO2 read off the standard
+			// dissociation curve at the SpO2, here rounded down to
+			// 0.1 mmHg (a lower PaO2 is the safe side).
+			p, err := physio.PO2AtSaturation(physio.Percent(*pt.SpO2Percent))
+			spo2 := strconv.FormatFloat(*pt.SpO2Percent, 'f', -1, 64)
+			if err != nil {
+				a.text[FieldAltPaO2], a.unit[FieldAltPaO2] = "", UnitMmHg
+				a.pao2Note = "The Brief gives SpO2 " + spo2 + " % and no PaO2; SpO2 on the flat top of the dissociation curve cannot give a PaO2: enter a measured PaO2."
+				break
+			}
+			d, _ := physio.Round(p.MmHg(), 1, physio.RoundDown)
+			a.text[FieldAltPaO2], a.unit[FieldAltPaO2] = d.String(), UnitMmHg
+			a.pao2Note = "PaO2 estimated from the Brief's SpO2 of " + spo2 + " % on the standard dissociation curve (Severinghaus 1979), rounded down; a measured PaO2 is better."
+		}
+		a.patientFrom = true
+	}
 	a.showUnits()
 }
 
@@ -213,10 +276,15 @@ func (a *altitude) showUnits() {
 
 func (a *altitude) edit(id, text string) {
 	a.text[id] = text
+	if id == FieldAltPaO2 {
+		a.pao2Note = ""
+	}
 	for _, f := range altFields {
 		if f.ID == id {
 			a.unit[id] = a.displayUnit(f)
-			if _, msg := f.Rules[a.unit[id]].Check(text); msg != "" {
+			if a.optional(f) && strings.TrimSpace(text) == "" {
+				delete(a.messages, id)
+			} else if _, msg := f.Rules[a.unit[id]].Check(text); msg != "" {
 				a.messages[id] = msg
 			} else {
 				delete(a.messages, id)
@@ -231,6 +299,10 @@ func (a *altitude) inputs() (altitudeInputs, bool) {
 	vals := map[string]float64{}
 	ok := true
 	for _, f := range altFields {
+		if a.optional(f) && strings.TrimSpace(a.text[f.ID]) == "" {
+			delete(a.messages, f.ID)
+			continue
+		}
 		v, msg := f.Rules[a.unit[f.ID]].Check(a.text[f.ID])
 		if msg != "" {
 			a.messages[f.ID] = msg
@@ -254,14 +326,29 @@ func (a *altitude) inputs() (altitudeInputs, bool) {
 		}
 		return physio.MmHg(vals[id])
 	}
-	return altitudeInputs{
+	in := altitudeInputs{
 		Origin: alt(FieldAltOrigin), Destination: alt(FieldAltDest), Cruise: alt(FieldAltCruise), CabinLimit: alt(FieldAltCabinLimit),
 		Differential: pressureOf(vals[FieldAltDiff], a.unit[FieldAltDiff]),
 		FiO2:         physio.FractionOf(vals[FieldAltFiO2]),
 		PaCO2:        gas(FieldAltPaCO2), PaO2: gas(FieldAltPaO2),
+		RQ: vals[FieldAltRQ], TemperatureC: vals[FieldAltTemp], AtDestination: a.atDestination,
 		CuffMl: vals[FieldAltCuffMl], PneumothoraxMl: vals[FieldAltPtxMl],
 		CuffGauge: physio.CmH2O(vals[FieldAltCuffP]),
-	}, true
+	}
+	if _, given := vals[FieldAltCabinStat]; given {
+		h := alt(FieldAltCabinStat)
+		in.Stated = &h
+	}
+	return in, true
+}
+
+// optional reports whether field f may be left empty now: the stated cabin
+// altitude always, the cruise altitude when a cabin altitude is stated.
+func (a *altitude) optional(f altField) bool {
+	if f.Optional {
+		return true
+	}
+	return f.ID == FieldAltCruise && strings.TrimSpace(a.text[FieldAltCabinStat]) != ""
 }
 
 // Shown values, each rounded on its safe side.
@@ -323,9 +410,24 @@ func (a *altitude) Render() app.UI {
 		res, msg = computeAltitude(in)
 	}
 	au, gu := a.settings.AltitudeUnit, a.settings.GasUnit
-	source := "Start values are an example; the Brief's plan fills the route and patient when there is one."
-	if a.fromPlan {
-		source = "Route and patient from the Brief's plan; changes here are not saved to it."
+	var source string
+	switch {
+	case a.routeFrom && a.patientFrom:
+		source = "Route and patient from the Brief; changes here are not saved to it."
+	case a.routeFrom:
+		source = "Route from the Brief; the patient values are an example until the Brief's patient is complete. Changes here are not saved to the Brief."
+	case a.patientFrom:
+		source = "Patient from the Brief; the route values are an example until the Brief's route is complete. Changes here are not saved to the Brief."
+	default:
+		source = "Start values are an example; the Brief fills the route and the patient once they are complete there."
+	}
+	cabinLabel := "Cabin altitude"
+	if res.CabinStated {
+		cabinLabel = "Cabin altitude (stated by the pilot)"
+	}
+	ground := "origin"
+	if a.atDestination {
+		ground = "destination"
 	}
 	results := func(body ...app.UI) app.UI {
 		if msg != "" {
@@ -342,11 +444,13 @@ func (a *altitude) Render() app.UI {
 				app.H2().Class("alv-card-title").Text("Route and aircraft"),
 				app.Div().Class("alv-form-row").Body(a.field(FieldAltOrigin), a.field(FieldAltDest)),
 				app.Div().Class("alv-form-row").Body(a.field(FieldAltCruise), a.field(FieldAltDiff)),
+				a.field(FieldAltCabinStat),
+				app.P().Class("alv-note").Text("A cabin altitude the pilot states replaces the computed one; the cruise altitude may then be left empty."),
 			),
 			app.Div().Class("alv-card").Aria("live", "polite").Body(
 				app.H2().Class("alv-card-title").Text("Cabin"),
 				results(
-					figure("alt-cabin", "Cabin altitude", a.altText(res.Cabin, physio.RoundUp), au),
+					figure("alt-cabin", cabinLabel, a.altText(res.Cabin, physio.RoundUp), au),
 					figure("alt-highest", "Highest altitude on the route ("+res.HighestPlace+")", a.altText(res.Highest, physio.RoundUp), au),
 				),
 				app.If(msg == "" && res.Cabin > physio.CabinAltitudeLimit, func() app.UI {
@@ -354,7 +458,7 @@ func (a *altitude) Render() app.UI {
 				}),
 				how("How",
 					app.P().Text("Cabin pressure = standard-atmosphere pressure at cruise + the maximum differential; cabin altitude = the standard-atmosphere altitude of that pressure (U.S. Standard Atmosphere 1976), never below the origin field; a differential of 0 is an unpressurised cabin. Rounded up."),
-					app.P().Text("A cabin altitude the pilot states is the better figure: enter it on the Brief."),
+					app.P().Text("A cabin altitude the pilot states is the better figure: enter it above or on the Brief, and it is used as it is."),
 				),
 				app.H3().Text("Highest cruise altitude for a cabin limit"),
 				a.field(FieldAltCabinLimit),
@@ -370,6 +474,10 @@ func (a *altitude) Render() app.UI {
 				app.H2().Class("alv-card-title").Text("Patient"),
 				a.field(FieldAltFiO2),
 				app.Div().Class("alv-form-row").Body(a.field(FieldAltPaCO2), a.field(FieldAltPaO2)),
+				app.If(a.pao2Note != "", func() app.UI { return app.P().Class("alv-note").ID("alt-pao2-note").Text(a.pao2Note) }),
+				segmented("alt-measured", "Ground values measured at", ground, []choice{{"origin", "Origin"}, {"destination", "Destination"}},
+					func(ctx app.Context, v string) { a.atDestination = v == "destination" }),
+				app.Div().Class("alv-form-row").Body(a.field(FieldAltRQ), a.field(FieldAltTemp)),
 			),
 			app.Div().Class("alv-card").Aria("live", "polite").Body(
 				app.H2().Class("alv-card-title").Text("At the cabin altitude, same FiO2"),
@@ -379,7 +487,7 @@ func (a *altitude) Render() app.UI {
 					figure("alt-spo2", "Expected SpO2", rounded(res.SpO2Cabin.Percent(), 0, physio.RoundDown), "%"),
 				),
 				how("How",
-					app.P().Text("PAO2 = FiO2·(PB − 47 mmHg) − PaCO2/0.8 (simplified alveolar gas equation). Expected PaO2 = the ground a/A ratio (PaO2 ÷ PAO2 at the origin) × PAO2 (constant a/A ratio method). SpO2 from PaO2 by the Severinghaus equation (J Appl Physiol 1979). All rounded down."),
+					app.P().Text("PAO2 = FiO2·(PB − PH2O) − PaCO2/R (simplified alveolar gas equation), with PH2O the conventional 47 mmHg at 37 °C or the saturation vapour pressure at another body temperature, and R the respiratory quotient. Expected PaO2 = the ground a/A ratio (PaO2 ÷ PAO2 at the "+ground+") × PAO2 (constant a/A ratio method). SpO2 from PaO2 by the Severinghaus equation (J Appl Physiol 1979). All rounded down; the same method as the Brief's plan."),
 				),
 			),
 		),
@@ -426,6 +534,7 @@ func (a *altitude) renderPlots(res altitudeResult, msg string) app.UI {
 			a.altText(res.Cabin, physio.RoundUp), au),
 		X:      xAxis,
 		Y:      plotAxis{Label: "PO2", Unit: gu, Min: 0, Max: yMax},
+		Narrow: true,
 		Lines:  []plotLine{{Name: "Alveolar PO2 (PAO2)", Class: "alv-plot-line-1", Points: pA}, {Name: "Expected arterial PaO2", Class: "alv-plot-line-2", Points: pa}},
 		VMarks: marks,
 	}
@@ -435,6 +544,7 @@ func (a *altitude) renderPlots(res altitudeResult, msg string) app.UI {
 		Desc:   fmt.Sprintf("Expected SpO2 %s %% at the cabin altitude; the SpO2 target in Settings is %s %%.", rounded(res.SpO2Cabin.Percent(), 0, physio.RoundDown), a.settings.SpO2Target),
 		X:      xAxis,
 		Y:      plotAxis{Label: "Expected SpO2", Unit: "%", Min: 50, Max: 100},
+		Narrow: true,
 		Lines:  []plotLine{{Name: "Expected SpO2", Class: "alv-plot-line-2", Points: sat}},
 		VMarks: marks,
 	}
@@ -442,7 +552,7 @@ func (a *altitude) renderPlots(res altitudeResult, msg string) app.UI {
 		spo2Plot.HMarks = []plotHMark{{Y: t.InexactFloat64(), Label: "Target " + t.String() + " %"}}
 	}
 	return card.Body(title,
-		app.Div().Class("alv-plots").Body(plotFigure(gasPlot), plotFigure(spo2Plot)),
+		app.Div().Class("alv-plots alv-plots-pair").Body(plotFigure(gasPlot), plotFigure(spo2Plot)),
 		app.P().Class("alv-note").Text("Each point is computed by the same functions as the figures above, at the FiO2 breathed on the ground."),
 	)
 }

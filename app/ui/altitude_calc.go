@@ -16,8 +16,12 @@ import (
 type altitudeInputs struct {
 	Origin, Destination, Cruise, CabinLimit physio.Altitude
 	Differential                            physio.Pressure
+	Stated                                  *physio.Altitude // cabin altitude stated by the pilot; nil: computed
 	FiO2                                    physio.Fraction
-	PaCO2, PaO2                             physio.Pressure // arterial, measured at the origin
+	PaCO2, PaO2                             physio.Pressure // arterial, measured on the ground
+	RQ                                      float64         // respiratory quotient
+	TemperatureC                            float64         // body temperature
+	AtDestination                           bool            // the ground values were measured at the destination
 	CuffMl, PneumothoraxMl                  float64
 	CuffGauge                               physio.Pressure // cuff pressure set at the origin
 }
@@ -25,6 +29,7 @@ type altitudeInputs struct {
 // altitudeResult is what the screen shows.
 type altitudeResult struct {
 	Cabin, Highest    physio.Altitude
+	CabinStated       bool // the cabin altitude is the pilot's, not computed
 	MaxCruise         physio.Altitude
 	MaxCruiseCeiling  bool // the differential holds the limit above the model's ceiling
 	AARatio           float64
@@ -51,13 +56,25 @@ type altitudeSample struct {
 }
 
 // alveolar returns PAO2 at altitude h for the patient (simplified alveolar
-// gas equation, conventional 47 mmHg water vapour, RQ 0.8).
-func alveolar(in altitudeInputs, h physio.Altitude) (physio.Pressure, error) {
+// gas equation) with the water vapour pressure ph2o.
+func alveolar(in altitudeInputs, ph2o physio.Pressure, h physio.Altitude) (physio.Pressure, error) {
 	pb, err := physio.PressureAtAltitude(h)
 	if err != nil {
 		return 0, err
 	}
-	return physio.AlveolarPO2(in.FiO2, pb, physio.ConventionalWaterVapourPressure, in.PaCO2, physio.DefaultRQ)
+	return physio.AlveolarPO2(in.FiO2, pb, ph2o, in.PaCO2, in.RQ)
+}
+
+// waterVapour is the alveolar water vapour pressure at the body
+// temperature: the conventional 47 mmHg at 37 °C (the figure the method is
+// taught with, and the one the plan engine uses there), otherwise
+// physio's saturation vapour pressure at that temperature — the same
+// choice as physio.ComputePlan, so both give the same figures.
+func waterVapour(tempC float64) (physio.Pressure, error) {
+	if tempC == physio.DefaultPlanTemperatureC {
+		return physio.ConventionalWaterVapourPressure, nil
+	}
+	return physio.WaterVapourPressure(physio.Celsius(tempC))
 }
 
 // computeAltitude computes every figure of the Altitude screen. An error
@@ -65,7 +82,9 @@ func alveolar(in altitudeInputs, h physio.Altitude) (physio.Pressure, error) {
 func computeAltitude(in altitudeInputs) (altitudeResult, string) {
 	var r altitudeResult
 	var err error
-	if r.Cabin, err = physio.CabinAltitude(in.Cruise, in.Differential, in.Origin); err != nil {
+	if in.Stated != nil {
+		r.Cabin, r.CabinStated = *in.Stated, true
+	} else if r.Cabin, err = physio.CabinAltitude(in.Cruise, in.Differential, in.Origin); err != nil {
 		return r, fmt.Sprintf("Cabin altitude: %v.", err)
 	}
 	r.MaxCruise, err = physio.MaxCruiseAltitude(in.CabinLimit, in.Differential)
@@ -90,16 +109,25 @@ func computeAltitude(in altitudeInputs) (altitudeResult, string) {
 		return r, fmt.Sprintf("Highest altitude: %v.", err)
 	}
 
-	// Patient: a/A ratio at the origin, held constant on the way.
-	pAO2Origin, err := alveolar(in, in.Origin)
+	// Patient: a/A ratio where the ground values were measured, held
+	// constant on the way.
+	ph2o, err := waterVapour(in.TemperatureC)
 	if err != nil {
-		return r, fmt.Sprintf("Alveolar PO2 at the origin: %v.", err)
+		return r, fmt.Sprintf("Water vapour at the body temperature: %v.", err)
 	}
-	if r.AARatio, err = physio.AARatio(in.PaO2, pAO2Origin); err != nil {
-		return r, fmt.Sprintf("Arterial PaO2 is above the alveolar PO2 at the origin (%v): check FiO2, PaO2 and PaCO2.", err)
+	ground, groundName := in.Origin, "origin"
+	if in.AtDestination {
+		ground, groundName = in.Destination, "destination"
+	}
+	pAO2Ground, err := alveolar(in, ph2o, ground)
+	if err != nil {
+		return r, fmt.Sprintf("Alveolar PO2 at the %s: %v.", groundName, err)
+	}
+	if r.AARatio, err = physio.AARatio(in.PaO2, pAO2Ground); err != nil {
+		return r, fmt.Sprintf("Arterial PaO2 is above the alveolar PO2 at the %s (%v): check FiO2, PaO2 and PaCO2.", groundName, err)
 	}
 	sample := func(h physio.Altitude) (altitudeSample, error) {
-		pA, err := alveolar(in, h)
+		pA, err := alveolar(in, ph2o, h)
 		if err != nil {
 			return altitudeSample{}, err
 		}

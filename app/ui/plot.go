@@ -21,15 +21,21 @@ import (
 // web/screens.css, which use the theme variables of web/alvea.css.
 
 // Geometry of the drawing, in SVG user units (the viewBox). CSS scales the
-// whole drawing to the width of its card.
+// whole drawing to the width of its card, and the text with it: a text of
+// 14 units is 14 px only where the drawing is shown as wide as its
+// viewBox. A plot shown in half a card (two side by side) uses the narrow
+// viewBox, so that its text stays at least 12 px on a 1024 px wide tablet.
 const (
-	plotWidth   = 640.0
-	plotHeight  = 340.0
-	plotLeft    = 72.0 // room for tick labels and the y-axis title
-	plotRight   = 34.0
-	plotTop     = 20.0
-	plotBottom  = 58.0 // room for tick labels and the x-axis title
-	plotMaxTick = 6
+	plotWidth       = 640.0
+	plotHeight      = 340.0
+	plotNarrowWidth = 440.0 // a plot in half a card (Narrow)
+	plotLeft        = 72.0  // room for tick labels and the y-axis title
+	plotRight       = 34.0
+	plotNarrowRight = 22.0
+	plotTop         = 20.0
+	plotBottom      = 58.0 // room for tick labels and the x-axis title
+	plotMaxTick     = 6
+	plotNarrowTicks = 5
 )
 
 // Tick label formats.
@@ -89,6 +95,19 @@ type plotSpec struct {
 	VMarks []plotVMark
 	HMarks []plotHMark
 	Bands  []plotBand
+	// Narrow draws on the narrow viewBox (plotNarrowWidth) with fewer
+	// ticks, for a plot shown in half a card: its text is then drawn
+	// about as large as the page's own.
+	Narrow bool
+}
+
+// geometry returns the viewBox width and the right margin, and the most
+// ticks per axis.
+func (p plotSpec) geometry() (width, right float64, ticks int) {
+	if p.Narrow {
+		return plotNarrowWidth, plotNarrowRight, plotNarrowTicks
+	}
+	return plotWidth, plotRight, plotMaxTick
 }
 
 // linearScale maps a data interval onto a drawing interval.
@@ -195,9 +214,10 @@ func f1(v float64) string { return strconv.FormatFloat(v, 'f', 1, 64) }
 // SVG returns the plot as SVG markup. Points that are not finite are
 // skipped, never drawn.
 func (p plotSpec) SVG() string {
-	xTicks, xLo, xHi, xStep := niceTicks(p.X.Min, p.X.Max, plotMaxTick, p.X.Format == axisClock)
-	yTicks, yLo, yHi, yStep := niceTicks(p.Y.Min, p.Y.Max, plotMaxTick, false)
-	left, right := plotLeft, plotWidth-plotRight
+	width, rightMargin, maxTicks := p.geometry()
+	xTicks, xLo, xHi, xStep := niceTicks(p.X.Min, p.X.Max, maxTicks, p.X.Format == axisClock)
+	yTicks, yLo, yHi, yStep := niceTicks(p.Y.Min, p.Y.Max, maxTicks, false)
+	left, right := plotLeft, width-rightMargin
 	top, bottom := plotTop, plotHeight-plotBottom
 	xs := linearScale{D0: xLo, D1: xHi, R0: left, R1: right}
 	ys := linearScale{D0: yLo, D1: yHi, R0: bottom, R1: top}
@@ -208,7 +228,7 @@ func (p plotSpec) SVG() string {
 	var b strings.Builder
 	titleID, descID := p.ID+"-title", p.ID+"-desc"
 	fmt.Fprintf(&b, `<svg xmlns="http://www.w3.org/2000/svg" class="alv-plot-svg" id="%s" viewBox="0 0 %s %s" role="img" aria-labelledby="%s %s" preserveAspectRatio="xMidYMid meet">`,
-		esc(p.ID), f1(plotWidth), f1(plotHeight), titleID, descID)
+		esc(p.ID), f1(width), f1(plotHeight), titleID, descID)
 	fmt.Fprintf(&b, `<title id="%s">%s</title><desc id="%s">%s</desc>`, titleID, esc(p.Title), descID, esc(p.Desc))
 
 	// Bands under everything else.

@@ -20,27 +20,6 @@ const (
 // supplyTick is how often the countdown is redrawn from the device clock.
 const supplyTick = 15 * time.Second
 
-// draftPlan returns the plan document of the current Brief draft, read
-// through the Brief's DraftStore, when the draft is complete enough for
-// physio to compute it. Otherwise the Supply screen keeps its own cylinder
-// list (see SupplySession) and the Altitude screen its example values.
-// Tests replace it.
-var draftPlan = func(ctx app.Context) (*physio.PlanDocument, bool) {
-	return planFromDraft(ctx, localDraftStore{})
-}
-
-func planFromDraft(ctx app.Context, store DraftStore) (*physio.PlanDocument, bool) {
-	d, found, err := store.Load(ctx)
-	if err != nil || !found {
-		return nil, false
-	}
-	m := buildBrief(d, LoadSettings(ctx))
-	if m == nil || !m.ok() || m.doc == nil {
-		return nil, false
-	}
-	return m.doc, true
-}
-
 // supply is the Supply screen: the cylinders on board and a live countdown
 // from the gauge reading and flow of the cylinder in use, with a plot of
 // the oxygen remaining against the clock.
@@ -49,8 +28,9 @@ type supply struct {
 
 	settings Settings
 	session  SupplySession
-	fromPlan bool                   // the cylinders come from the Brief draft
-	legs     []physio.PlanLegResult // legs of the Brief draft's plan, if any
+	fromPlan bool      // the cylinders come from the Brief draft
+	legs     []legBand // legs of the Brief draft, if any
+	policy   *supplyPolicy
 
 	gaugeText, flowText string // the fields as typed
 	messages            FieldErrors
@@ -114,11 +94,29 @@ func (s *supply) OnDismount() {
 	}
 }
 
-// adoptDraft takes the cylinders (expanded by count) and the legs from the
-// Brief draft's plan, when there is one.
+// supplyPolicy is the reserve policy of the Brief draft (its own, or the
+// Settings' when it does not override them), which the countdown then uses
+// so that it counts as the plan does.
+type supplyPolicy struct {
+	Residual physio.Pressure
+	Added    time.Duration
+	Text     string // the residual as the Brief gives it, with its unit
+}
+
+// adoptDraft takes the cylinders (expanded by count), the legs and the
+// reserve policy from the Brief draft, each when that part of the draft is
+// complete. The patient is not needed.
 func (s *supply) adoptDraft(ctx app.Context) {
-	doc, ok := draftPlan(ctx)
-	if !ok || doc == nil || len(doc.Supply) == 0 {
+	parts, ok := draftPlan(ctx)
+	if !ok {
+		return
+	}
+	s.adoptParts(parts)
+}
+
+func (s *supply) adoptParts(parts draftParts) {
+	doc := parts.doc
+	if !parts.supply || doc == nil || len(doc.Supply) == 0 {
 		return
 	}
 	var cyls []SupplyCylinder
@@ -153,8 +151,22 @@ func (s *supply) adoptDraft(ctx app.Context) {
 	if s.session.InUse >= len(cyls) {
 		s.session.InUse = 0
 	}
-	if res, err := physio.ComputePlan(doc); err == nil {
-		s.legs = res.Legs
+	s.legs = parts.draftLegs()
+	s.policy = nil
+	if pol := doc.Policy; parts.policy && pol != nil && pol.ReserveMinutes != nil {
+		var sp supplyPolicy
+		switch {
+		case pol.ResidualPsi != nil:
+			sp.Residual = physio.Psi(*pol.ResidualPsi)
+			sp.Text = strconv.FormatFloat(*pol.ResidualPsi, 'f', -1, 64) + " " + UnitPsi
+		case pol.ResidualBar != nil:
+			sp.Residual = physio.Bar(*pol.ResidualBar)
+			sp.Text = strconv.FormatFloat(*pol.ResidualBar, 'f', -1, 64) + " " + UnitBar
+		default:
+			return
+		}
+		sp.Added = time.Duration(*pol.ReserveMinutes * float64(time.Minute))
+		s.policy = &sp
 	}
 }
 
@@ -167,6 +179,9 @@ func (s *supply) unitsChanged() {
 }
 
 func (s *supply) residual() (physio.Pressure, time.Duration, string) {
+	if s.policy != nil {
+		return s.policy.Residual, s.policy.Added, ""
+	}
 	res, err := s.settings.SafeResidualPressure()
 	if err != nil {
 		return 0, 0, "The safe residual in Settings is not valid."
@@ -364,6 +379,10 @@ func (s *supply) renderCountdown(cd countdown, msg string) app.UI {
 		)
 	}
 	residual := s.settings.SafeResidualShown() + " " + s.settings.PressureUnit
+	policyFrom := "Settings"
+	if s.policy != nil {
+		residual, policyFrom = s.policy.Text, "the Brief's reserve policy"
+	}
 	usable, _ := physio.Round(cd.InUseUsable.Litres(), 0, physio.RoundDown)
 	total, _ := physio.Round(cd.TotalUsable.Litres(), 0, physio.RoundDown)
 	reserveL, _ := physio.Round(cd.Reserve.Litres(), 0, physio.RoundUp)
@@ -388,10 +407,10 @@ func (s *supply) renderCountdown(cd countdown, msg string) app.UI {
 			app.Text(" L on board."),
 		),
 		how("How",
-			app.P().Text("Usable litres above the safe residual ("+residual+", from Settings): cylinder factor (L/psi) × (gauge − residual) for CGA sizes, water capacity (L) × (gauge − residual in bar) for others (common practice)."),
+			app.P().Text("Usable litres above the safe residual ("+residual+", from "+policyFrom+"): cylinder factor (L/psi) × (gauge − residual) for CGA sizes, water capacity (L) × (gauge − residual in bar) for others (common practice)."),
 			app.P().Text("Minutes left = usable litres ÷ flow, counted from the time of the reading on the device clock; rounded down, and clock times truncated to the minute (earlier is the safe side)."),
-			app.P().Text(fmt.Sprintf("Reserve: the added reserve time in Settings (%d min) at the current flow = %s L. Cylinders after the one in use count at their starting gauge; cylinders before it count as spent.",
-				int64(cd.ReserveAddMin/time.Minute), reserveL.String())),
+			app.P().Text(fmt.Sprintf("Reserve: the added reserve time of %s (%s min) at the current flow = %s L. Cylinders after the one in use count at their starting gauge; cylinders before it count as spent.",
+				policyFrom, strconv.FormatFloat(cd.ReserveAddMin.Minutes(), 'f', -1, 64), reserveL.String())),
 		),
 	)
 }
@@ -442,13 +461,9 @@ func (s *supply) renderPlot(cd countdown, msg string) app.UI {
 	xMax := at + cd.ToEmpty.Minutes()
 	var bands []plotBand
 	for _, l := range s.legs {
-		x0 := l.StartMinute.InexactFloat64()
-		x1 := x0 + l.Minutes.InexactFloat64()
-		name := l.Label
-		if name == "" {
-			name = fmt.Sprintf("Leg %d (%s)", l.Index+1, l.Where)
-		}
-		bands = append(bands, plotBand{X0: x0, X1: x1, Label: name})
+		x0 := l.Start
+		x1 := x0 + l.Minutes
+		bands = append(bands, plotBand{X0: x0, X1: x1, Label: l.Label})
 		if x1 > xMax {
 			xMax = x1
 		}
