@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -18,10 +19,12 @@ import (
 type brief struct {
 	app.Compo
 
-	store DraftStore
-	s     *briefState
-	ctx   app.Context // from OnMount, to save the draft when leaving
-	leave app.Func    // saves the draft when the page is hidden or closed
+	store   DraftStore
+	session *vaultSession // where the patient block is kept; nil: store only
+	s       *briefState
+	ctx     app.Context // from OnMount, to save the draft when leaving
+	leave   app.Func    // saves the draft when the page is hidden or closed
+	unsub   func()      // stops following the vault session
 }
 
 // briefState is shared by the Brief and its cards.
@@ -33,25 +36,59 @@ type briefState struct {
 
 	rev     int // the plan changed: the result panel redraws
 	formRev int // the whole form must redraw (draft loaded, units changed)
-	saveGen int
-	pending bool            // an edit not yet saved
-	open    map[string]bool // "How" disclosures the crew opened
+	// patientNote is the note on the patient card while its values are
+	// kept in memory only (the vault locked or absent); "" when they are
+	// saved in the vault.
+	patientNote string
+	saveGen     int
+	pending     bool            // an edit not yet saved
+	open        map[string]bool // "How" disclosures the crew opened
 }
 
 // saveDelay gathers a burst of keystrokes into one save of the draft.
 const saveDelay = 300 * time.Millisecond
 
-func newBrief() *brief { return newBriefWith(localDraftStore{}) }
+func newBrief() *brief { return newBriefOn(theVault) }
 
-// newBriefWith returns a Brief keeping its draft in store.
+// newBriefOn returns a Brief whose patient block is kept by the vault
+// session (vault_draft.go), the rest of the draft in localStorage.
+func newBriefOn(session *vaultSession) *brief {
+	b := newBriefWith(draftStoreFor(session))
+	b.session = session
+	b.s.patientNote = patientNoteFor(session)
+	return b
+}
+
+// newBriefWith returns a Brief keeping its whole draft in store (tests).
 func newBriefWith(store DraftStore) *brief {
 	s := &briefState{draft: NewBriefDraft(), settings: DefaultSettings(), store: store, open: map[string]bool{}}
 	s.recompute()
 	return &brief{store: store, s: s}
 }
 
+// Notes on the patient card while its values are not saved (our wording).
+const (
+	notePatientLocked  = "Patient values stay only in memory until the logbook is unlocked: a reload clears them. Unlock the logbook to keep them across a reload."
+	notePatientNoVault = "Patient values stay only in memory: a reload clears them. Create the logbook to keep them across a reload."
+)
+
+// patientNoteFor returns the patient card's note for the session's phase.
+func patientNoteFor(session *vaultSession) string {
+	if session == nil {
+		return ""
+	}
+	switch phase, _ := session.Phase(); phase {
+	case phaseUnlocked:
+		return ""
+	case phaseEmpty, phaseUnavailable:
+		return notePatientNoVault
+	}
+	return notePatientLocked
+}
+
 func (b *brief) OnMount(ctx app.Context) {
 	b.load(ctx)
+	b.follow(ctx)
 	// A reload or a closed tab within the save delay must not lose the
 	// last edit: save when the page is hidden.
 	b.ctx = ctx
@@ -70,6 +107,10 @@ func (b *brief) OnDismount() {
 		return
 	}
 	b.s.flush(b.ctx)
+	if b.unsub != nil {
+		b.unsub()
+		b.unsub = nil
+	}
 	app.Window().Call("removeEventListener", "pagehide", b.leave)
 	app.Window().Call("removeEventListener", "visibilitychange", b.leave)
 	b.leave.Release()
@@ -91,6 +132,44 @@ func (b *brief) load(ctx app.Context) {
 	}
 	s.recompute()
 	s.formRev++
+}
+
+// follow listens to the vault session: an unlock after the Brief mounted
+// brings the saved patient block (or saves the one on screen), a lock
+// brings the note back. It also opens the store, so the note can tell a
+// locked logbook from none.
+func (b *brief) follow(ctx app.Context) {
+	if b.session == nil {
+		return
+	}
+	session := b.session
+	b.unsub = session.Subscribe(func() {
+		ctx.Dispatch(func(ctx app.Context) { b.vaultChanged(ctx) })
+	})
+	ctx.Async(func() {
+		session.Load(context.Background()) // a failure shows in the note
+	})
+}
+
+// vaultChanged follows a change of the session's phase.
+func (b *brief) vaultChanged(ctx app.Context) {
+	s := b.s
+	was := s.patientNote
+	s.patientNote = patientNoteFor(b.session)
+	if s.patientNote != "" || was == "" {
+		return
+	}
+	// Just unlocked. The session restored the saved block into memory if
+	// none was held; an edit not yet saved stays and is saved now.
+	if s.pending {
+		s.flush(ctx)
+		return
+	}
+	if p, ok := b.session.DraftPatient(); ok && p != s.draft.Patient {
+		s.draft.Patient = p
+		s.recompute()
+		s.formRev++
+	}
 }
 
 // recompute reads the fields and, when all are valid, computes the plan.
@@ -140,7 +219,7 @@ func (b *brief) Render() app.UI {
 			app.Div().Class("b-form").Body(
 				&briefRoute{Rev: s.formRev, Msgs: s.msgSig("b-rt-"), s: s},
 				&briefLegs{Rev: s.formRev, Msgs: s.msgSig("b-leg"), s: s},
-				&briefPatient{Rev: s.formRev, Msgs: s.msgSig("b-pt-"), s: s},
+				&briefPatient{Rev: s.formRev, Msgs: s.msgSig("b-pt-"), Note: s.patientNote, s: s},
 				&briefSupply{Rev: s.formRev, Msgs: s.msgSig("b-sup"), s: s},
 				&briefPolicy{Rev: s.formRev, Msgs: s.msgSig("b-pol-"), s: s},
 			),

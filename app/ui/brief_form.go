@@ -278,6 +278,7 @@ type briefPatient struct {
 	app.Compo
 	Rev  int
 	Msgs string
+	Note string // values kept in memory only: why, and how to keep them
 	s    *briefState
 }
 
@@ -287,6 +288,9 @@ func (c *briefPatient) Render() app.UI {
 	return app.Div().Class("alv-card b-card").ID("b-patient").Body(
 		app.H2().Class("alv-card-title").Text("Patient on the ground"),
 		app.P().Class("alv-note").Text("PaO2 and/or SpO2, with the FiO2 the patient breathed when they were measured."),
+		app.If(c.Note != "", func() app.UI {
+			return app.P().ID("b-pt-kept").Class("alv-note b-pt-kept").Attr("role", "status").Text(c.Note)
+		}),
 		app.Div().Class("b-row").Body(
 			s.numField(fidPtFiO2, specPtFiO2, p.FiO2, true, func(e Entry) { p.FiO2 = e }),
 			s.numField(fidPaO2, specPaO2, p.PaO2, false, func(e Entry) { p.PaO2 = e }),

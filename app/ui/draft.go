@@ -65,10 +65,9 @@ type LegDraft struct {
 
 // PatientDraft is the patient's ground state.
 //
-// PATIENT DATA. This block is what DESIGN.md forbids in plain browser
-// storage. It is kept apart from the rest of the draft (its own key in
-// localDraftStore) so that it can move into the encrypted Logbook vault,
-// held only while the vault is unlocked, by swapping the DraftStore.
+// PATIENT DATA. DESIGN.md forbids it in plain browser storage: it is never
+// written by localDraftStore; the Brief keeps it through vaultDraftStore
+// (vault_draft.go), in memory and sealed in the Logbook vault.
 type PatientDraft struct {
 	FiO2        Entry  `json:"fio2"`
 	PaO2        Entry  `json:"pao2"`
@@ -143,15 +142,16 @@ type DraftStore interface {
 // Keys of localDraftStore.
 const (
 	draftKey = "alvea.brief.draft"
-	// draftPatientKey holds the patient block. TEMPORARY: patient values
-	// are patient data; this key goes away when the Logbook vault holds
-	// the patient block (see PatientDraft).
+	// draftPatientKey is where an earlier version kept the patient block
+	// in plain localStorage. Nothing writes it now; takeOldPatient moves a
+	// value found there out and deletes it.
 	draftPatientKey = "alvea.brief.patient"
 )
 
-// localDraftStore keeps the draft in the browser's localStorage (go-app's
-// memory storage natively): route, legs, supply and policy under draftKey,
-// and — for now only — the patient block under draftPatientKey.
+// localDraftStore keeps the part of the draft that says nothing about the
+// patient — route, legs, supply and policy — in the browser's localStorage
+// (go-app's memory storage natively). It never stores the patient block:
+// Load gives an empty one, Save leaves it out.
 type localDraftStore struct{}
 
 var _ DraftStore = localDraftStore{}
@@ -165,6 +165,8 @@ type storedDraft struct {
 	Policy PolicyDraft   `json:"policy"`
 }
 
+// storedPatient is the patient block as sealed in the vault's draft slot
+// (and as an earlier version left it under draftPatientKey).
 type storedPatient struct {
 	Schema  int          `json:"schema"`
 	Patient PatientDraft `json:"patient"`
@@ -178,14 +180,8 @@ func (localDraftStore) Load(ctx app.Context) (BriefDraft, bool, error) {
 	if s.Schema != draftSchema {
 		return NewBriefDraft(), false, nil
 	}
-	d := BriefDraft{Schema: draftSchema, Route: s.Route, Legs: s.Legs, Supply: s.Supply, Policy: s.Policy,
-		Patient: PatientDraft{MeasuredAt: "origin"}}
-	// TEMPORARY plain-storage patient block (moves into the vault).
-	var p storedPatient
-	if err := ctx.LocalStorage().Get(draftPatientKey, &p); err == nil && p.Schema == draftSchema {
-		d.Patient = p.Patient
-	}
-	return d, true, nil
+	return BriefDraft{Schema: draftSchema, Route: s.Route, Legs: s.Legs, Supply: s.Supply, Policy: s.Policy,
+		Patient: NewBriefDraft().Patient}, true, nil
 }
 
 func (localDraftStore) Save(ctx app.Context, d BriefDraft) error {
@@ -193,11 +189,26 @@ func (localDraftStore) Save(ctx app.Context, d BriefDraft) error {
 	if err := ctx.LocalStorage().Set(draftKey, s); err != nil {
 		return fmt.Errorf("ui: saving the brief draft: %w", err)
 	}
-	// TEMPORARY plain-storage patient block (moves into the vault).
-	if err := ctx.LocalStorage().Set(draftPatientKey, storedPatient{Schema: draftSchema, Patient: d.Patient}); err != nil {
-		return fmt.Errorf("ui: saving the brief draft: %w", err)
-	}
 	return nil
+}
+
+// takeOldPatient returns the patient block an earlier version left in
+// plain localStorage, if any, and deletes it there in every case.
+func takeOldPatient(ctx app.Context) (PatientDraft, bool) {
+	ls := ctx.LocalStorage()
+	if !ls.Contains(draftPatientKey) {
+		return PatientDraft{}, false
+	}
+	var p storedPatient
+	err := ls.Get(draftPatientKey, &p)
+	ls.Del(draftPatientKey)
+	if err != nil || p.Schema != draftSchema || patientEmpty(p.Patient) {
+		return PatientDraft{}, false
+	}
+	if p.Patient.MeasuredAt == "" {
+		p.Patient.MeasuredAt = NewBriefDraft().Patient.MeasuredAt
+	}
+	return p.Patient, true
 }
 
 // memDraftStore keeps the draft in memory (tests, and a device that must

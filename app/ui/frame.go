@@ -9,26 +9,40 @@ import (
 // rather than for text the prerender already holds.
 const ReadyAttr = "data-alvea"
 
-// frame is the app shell around every screen: the header with the tabs, the
-// update offer, the screen itself in <main>, and the footer with the version.
-// It applies the theme from the settings.
+// frame is the app shell around every screen: the header with the tabs and,
+// while the logbook is unlocked, its Lock button; the update offer; the
+// screen itself in <main>; and the footer with the version. It applies the
+// theme and the logbook's auto-lock time from the settings, and any tap or
+// key anywhere in it counts as use of the logbook (postponing the lock).
 type frame struct {
 	app.Compo
 
 	// Path is the route of the screen shown.
 	Path string
 
+	session       *vaultSession
+	unsub         func()
+	unlocked      bool // the logbook is unlocked: offer the Lock button
 	settings      Settings
 	updateWaiting bool
 	updateLater   bool
 }
 
-func newFrame(path string) *frame { return &frame{Path: path, settings: DefaultSettings()} }
+func newFrame(path string) *frame { return newFrameOn(path, theVault) }
+
+// newFrameOn returns the frame on a given vault session (tests).
+func newFrameOn(path string, session *vaultSession) *frame {
+	return &frame{Path: path, session: session, settings: DefaultSettings()}
+}
 
 func (f *frame) OnMount(ctx app.Context) {
 	f.settings = LoadSettings(ctx)
-	ctx.ObserveState(SettingsKey, &f.settings).OnChange(func() { applyTheme(f.settings.Theme) })
+	ctx.ObserveState(SettingsKey, &f.settings).OnChange(func() {
+		applyTheme(f.settings.Theme)
+		f.applyAutoLock()
+	})
 	applyTheme(f.settings.Theme)
+	f.follow(ctx)
 	f.updateWaiting = updateWaiting()
 	// Deferred: set after the frame that renders what the screens loaded in
 	// their own OnMount (children mount first), so a test that sees the
@@ -39,6 +53,45 @@ func (f *frame) OnMount(ctx app.Context) {
 	// Ask the browser to look for a new version now; one found is offered,
 	// never applied by itself.
 	app.TryUpdate()
+}
+
+// OnDismount stops following the vault session.
+func (f *frame) OnDismount() {
+	if f.unsub != nil {
+		f.unsub()
+		f.unsub = nil
+	}
+}
+
+// follow applies the auto-lock time and tracks whether the logbook is
+// unlocked, for the Lock button.
+func (f *frame) follow(ctx app.Context) {
+	f.applyAutoLock()
+	f.unsub = f.session.Subscribe(func() {
+		ctx.Dispatch(func(ctx app.Context) { f.syncVault() })
+	})
+	f.syncVault()
+}
+
+func (f *frame) applyAutoLock() { f.session.SetIdle(f.settings.AutoLock()) }
+
+func (f *frame) syncVault() {
+	phase, _ := f.session.Phase()
+	f.unlocked = phase == phaseUnlocked
+}
+
+// touch postpones the auto-lock: any tap or key in the app is use. The
+// session may wait for the vault (busy with storage), so it runs aside.
+func (f *frame) touch(ctx app.Context, e app.Event) {
+	ctx.PreventUpdate()
+	session := f.session
+	ctx.Async(session.Touch)
+}
+
+// lock drops the logbook's key now (the vault zeroes it).
+func (f *frame) lock(ctx app.Context, e app.Event) {
+	f.session.Lock()
+	f.syncVault()
 }
 
 // OnAppUpdate runs when a new version has been downloaded. It only offers it.
@@ -56,7 +109,8 @@ func (f *frame) Render() app.UI {
 		}
 		tabs = append(tabs, app.Li().Body(a))
 	}
-	return app.Div().Class("alv-app").DataSet("theme", f.settings.Theme).Body(
+	return app.Div().Class("alv-app").DataSet("theme", f.settings.Theme).
+		On("pointerdown", f.touch).OnKeyDown(f.touch).Body(
 		app.A().Class("alv-skip").Href("#main").Text("Skip to content"),
 		app.Header().Class("alv-header").Body(
 			app.Div().Class("alv-brand").Body(
@@ -66,6 +120,11 @@ func (f *frame) Render() app.UI {
 			app.Nav().Aria("label", "Screens").Body(
 				app.Ul().Class("alv-tabs").Body(tabs...),
 			),
+			app.If(f.unlocked, func() app.UI {
+				return app.Button().ID("frame-lock").Type("button").Class("alv-button alv-frame-lock").
+					Title("Drop the logbook's key now (the Brief stays on screen)").
+					Text("Lock logbook").OnClick(f.lock)
+			}),
 		),
 		app.If(f.updateWaiting && !f.updateLater, func() app.UI {
 			return updateBanner(f.later)

@@ -348,49 +348,6 @@ func TestLbCylindersFromPlan(t *testing.T) {
 	}
 }
 
-// The Brief's patient block never reaches plain storage through the
-// session draft store; it is held in memory and dropped at lock.
-func TestSessionDraftStoreKeepsPatientOutOfPlainStorage(t *testing.T) {
-	s := testSession(logbook.NewMemStore())
-	l, e := mountLogbook(t, s)
-	_ = e
-	ctx := l.mctx
-	// A block an earlier version left in localStorage moves into memory.
-	old := NewBriefDraft()
-	old.Patient.SpO2 = Entry{T: "88"}
-	if err := (localDraftStore{}).Save(ctx, old); err != nil {
-		t.Fatal(err)
-	}
-	ds := draftStoreFor(s)
-	d, found, err := ds.Load(ctx)
-	if err != nil || !found || d.Patient.SpO2.T != "88" {
-		t.Fatalf("load: %+v, %v, %v", d.Patient, found, err)
-	}
-	var p storedPatient
-	if err := ctx.LocalStorage().Get(draftPatientKey, &p); err == nil && p.Patient.SpO2.T != "" {
-		t.Error("the old plain patient block was left in localStorage")
-	}
-	d.Patient.PaO2 = Entry{T: "55", U: "mmHg"}
-	if err := ds.Save(ctx, d); err != nil {
-		t.Fatal(err)
-	}
-	p = storedPatient{}
-	ctx.LocalStorage().Get(draftPatientKey, &p)
-	if p.Patient.PaO2.T != "" || p.Patient.SpO2.T != "" {
-		t.Errorf("patient values in plain storage: %+v", p.Patient)
-	}
-	if d2, _, _ := ds.Load(ctx); d2.Patient.PaO2.T != "55" {
-		t.Error("the patient block was not kept in memory")
-	}
-	if err := s.Create(context.Background(), uiTestPass); err != nil {
-		t.Fatal(err)
-	}
-	s.Lock()
-	if d3, _, _ := ds.Load(ctx); d3.Patient.PaO2.T != "" {
-		t.Error("the patient block survived the lock")
-	}
-}
-
 // Start transport from the current Brief: the plan document, physio's
 // result for it and the engine version go into the open record; the
 // result is what physio.ComputePlan gives for that same document (one

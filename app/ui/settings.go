@@ -3,6 +3,7 @@ package ui
 import (
 	"fmt"
 	"strings"
+	"time"
 	"unicode/utf8"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -50,6 +51,11 @@ type Settings struct {
 
 	Theme     string           `json:"theme"` // day | night
 	Cylinders []CustomCylinder `json:"cylinders"`
+
+	// AutoLockMinutes is the Logbook's idle time before it locks itself,
+	// whole minutes as typed. Settings saved before it existed lack it and
+	// get the default (normalized).
+	AutoLockMinutes string `json:"autoLockMinutes"`
 }
 
 // CustomCylinder is a cylinder the crew adds by water capacity and full
@@ -76,6 +82,7 @@ func DefaultSettings() Settings {
 		ReserveMinutes:   "30",  // common practice: 30 minutes added for delays
 		SpO2Target:       "94",  // common practice: 94 % lower target for most adults
 		Theme:            ThemeDay,
+		AutoLockMinutes:  "5", // issue 5: auto-lock after 5 minutes idle by default
 	}
 }
 
@@ -87,6 +94,10 @@ var (
 	ruleReserveFactor = rangeRule{Label: "Reserve factor", Min: "1", Max: "3", Unit: "×"}
 	ruleReserveMin    = rangeRule{Label: "Added reserve time", Min: "0", Max: "240", Unit: "min", Whole: true}
 	ruleSpO2Target    = rangeRule{Label: "SpO2 target", Min: "85", Max: "100", Unit: "%"}
+	// The Logbook's auto-lock: at least a minute (shorter would lock a crew
+	// out between two entries), at most an hour (longer leaves an unlocked
+	// log on an unattended tablet). Our choice of bounds.
+	ruleAutoLock = rangeRule{Label: "Auto-lock", Min: "1", Max: "60", Unit: "min", Whole: true}
 	// Cylinder ranges follow physio's plausible ranges for water-capacity
 	// cylinders (0.1–100 L, filled to at most 300 bar ≈ 4351 psi).
 	ruleWaterCapacity = rangeRule{Label: "Water capacity", Min: "0.1", Max: "100", Unit: "L"}
@@ -154,6 +165,7 @@ const (
 	FieldReserveFactor  = "set-factor"
 	FieldReserveMinutes = "set-minutes"
 	FieldSpO2Target     = "set-spo2"
+	FieldAutoLock       = "set-autolock"
 	FieldCylName        = "set-cyl-name"
 	FieldCylWater       = "set-cyl-water"
 	FieldCylPressure    = "set-cyl-pressure"
@@ -187,6 +199,9 @@ func (s Settings) Validate() FieldErrors {
 	}
 	if _, msg := ruleSpO2Target.Check(s.SpO2Target); msg != "" {
 		errs[FieldSpO2Target] = msg
+	}
+	if _, msg := ruleAutoLock.Check(s.AutoLockMinutes); msg != "" {
+		errs[FieldAutoLock] = msg
 	}
 	for i, c := range s.Cylinders {
 		if e := c.Validate(); len(e) > 0 {
@@ -244,6 +259,7 @@ func (s Settings) normalized() (Settings, bool) {
 	fix(FieldReserveFactor, func() { out.ReserveFactor = d.ReserveFactor })
 	fix(FieldReserveMinutes, func() { out.ReserveMinutes = d.ReserveMinutes })
 	fix(FieldSpO2Target, func() { out.SpO2Target = d.SpO2Target })
+	fix(FieldAutoLock, func() { out.AutoLockMinutes = d.AutoLockMinutes })
 	out.Cylinders = nil
 	for _, c := range s.Cylinders {
 		if len(c.Validate()) == 0 {
@@ -287,6 +303,16 @@ func (s Settings) SafeResidualShown() string {
 		return decimal.NewFromFloat(p.Bar()).RoundCeil(1).String()
 	}
 	return decimal.NewFromFloat(p.Psi()).RoundCeil(0).String()
+}
+
+// AutoLock returns the Logbook's idle time before it locks itself (the
+// default when the field is invalid; Validate reports that).
+func (s Settings) AutoLock() time.Duration {
+	v, msg := ruleAutoLock.Check(s.AutoLockMinutes)
+	if msg != "" {
+		v, _ = ruleAutoLock.Check(DefaultSettings().AutoLockMinutes)
+	}
+	return time.Duration(v.IntPart()) * time.Minute
 }
 
 // LoadSettings returns the stored settings, or the defaults for any field

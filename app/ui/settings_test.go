@@ -3,6 +3,7 @@ package ui
 import (
 	"strings"
 	"testing"
+	"time"
 )
 
 // Range checks: each message names the field, the allowed range and the
@@ -32,6 +33,13 @@ func TestSettingsValidate(t *testing.T) {
 		{"spo2 under", func(s *Settings) { s.SpO2Target = "84" }, FieldSpO2Target, "between 85 and 100 %"},
 		{"spo2 100", func(s *Settings) { s.SpO2Target = "100" }, "", ""},
 		{"theme unknown", func(s *Settings) { s.Theme = "dusk" }, "theme", "day or night"},
+		{"auto-lock 1 min", func(s *Settings) { s.AutoLockMinutes = "1" }, "", ""},
+		{"auto-lock 60 min", func(s *Settings) { s.AutoLockMinutes = "60" }, "", ""},
+		{"auto-lock 0", func(s *Settings) { s.AutoLockMinutes = "0" }, FieldAutoLock, "Auto-lock must be between 1 and 60 min"},
+		{"auto-lock 61", func(s *Settings) { s.AutoLockMinutes = "61" }, FieldAutoLock, "between 1 and 60 min"},
+		{"auto-lock fractional", func(s *Settings) { s.AutoLockMinutes = "2.5" }, FieldAutoLock, "whole number between 1 and 60 min"},
+		{"auto-lock empty", func(s *Settings) { s.AutoLockMinutes = "" }, FieldAutoLock, "Auto-lock is required"},
+		{"auto-lock text", func(s *Settings) { s.AutoLockMinutes = "five" }, FieldAutoLock, "is not a number"},
 		{"pressure unit unknown", func(s *Settings) { s.PressureUnit = "atm" }, "pressureUnit", "psi or bar"},
 		{"bad cylinder", func(s *Settings) {
 			s.Cylinders = []CustomCylinder{{Name: "X", WaterCapacity: "0", FullPressure: "200", PressureUnit: UnitBar}}
@@ -136,5 +144,25 @@ func TestSettingsNormalized(t *testing.T) {
 	}
 	if errs := got.Validate(); len(errs) != 0 {
 		t.Errorf("normalized settings still invalid: %v", errs)
+	}
+}
+
+// Settings saved before the auto-lock field existed get the default idle
+// time of issue 5 (5 minutes); a valid value is applied as typed.
+func TestSettingsAutoLock(t *testing.T) {
+	old := DefaultSettings()
+	old.AutoLockMinutes = ""
+	got, changed := old.normalized()
+	if !changed || got.AutoLockMinutes != "5" || got.AutoLock() != 5*time.Minute {
+		t.Errorf("older settings: %q → %v", got.AutoLockMinutes, got.AutoLock())
+	}
+	s := DefaultSettings()
+	s.AutoLockMinutes = "12"
+	if s.AutoLock() != 12*time.Minute {
+		t.Errorf("AutoLock = %v, want 12m", s.AutoLock())
+	}
+	s.AutoLockMinutes = "0"
+	if s.AutoLock() != 5*time.Minute {
+		t.Errorf("an invalid value gives %v, want the 5 min default", s.AutoLock())
 	}
 }

@@ -40,6 +40,7 @@ func (s *settingsScreen) load(st Settings) {
 		FieldReserveFactor:  st.ReserveFactor,
 		FieldReserveMinutes: st.ReserveMinutes,
 		FieldSpO2Target:     st.SpO2Target,
+		FieldAutoLock:       st.AutoLockMinutes,
 	}
 	s.messages = FieldErrors{}
 	s.newCyl = CustomCylinder{PressureUnit: st.PressureUnit}
@@ -73,6 +74,9 @@ func (s *settingsScreen) edit(ctx app.Context, field, text string) {
 	case FieldSpO2Target:
 		_, msg = ruleSpO2Target.Check(text)
 		next.SpO2Target = strings.TrimSpace(text)
+	case FieldAutoLock:
+		_, msg = ruleAutoLock.Check(text)
+		next.AutoLockMinutes = strings.TrimSpace(text)
 	}
 	if msg != "" {
 		s.messages[field] = msg
@@ -83,6 +87,7 @@ func (s *settingsScreen) edit(ctx app.Context, field, text string) {
 	next.ReserveFactor = strings.ReplaceAll(next.ReserveFactor, ",", ".")
 	next.ReserveMinutes = strings.ReplaceAll(next.ReserveMinutes, ",", ".")
 	next.SpO2Target = strings.ReplaceAll(next.SpO2Target, ",", ".")
+	next.AutoLockMinutes = strings.ReplaceAll(next.AutoLockMinutes, ",", ".")
 	s.save(ctx, next)
 }
 
@@ -181,6 +186,13 @@ func (s *settingsScreen) Render() app.UI {
 					[]choice{{ThemeDay, "Day"}, {ThemeNight, "Night (dim)"}},
 					func(ctx app.Context, v string) { s.pick(ctx, "theme", v) }),
 				app.P().Class("alv-note").Text("Night is dim and red-shifted to keep dark adaptation in the cockpit."),
+			),
+			app.Div().Class("alv-card").Body(
+				app.H2().Class("alv-card-title").Text("Logbook"),
+				numberField(FieldAutoLock, "Lock the logbook after this long without use", "min",
+					s.text[FieldAutoLock], s.messages[FieldAutoLock],
+					func(ctx app.Context, v string) { s.edit(ctx, FieldAutoLock, v) }),
+				app.P().Class("alv-note").Text("Any tap or key anywhere in Alvea counts as use. A lock keeps the Brief on screen but stops saving its patient values until the logbook is unlocked."),
 			),
 		),
 		s.renderCylinders(),

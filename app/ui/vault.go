@@ -44,7 +44,18 @@ type vaultSession struct {
 	idle    time.Duration
 	subs    map[int]func()
 	nextSub int
-	rev     int // bumped at every change of phase or content
+	rev     int              // bumped at every change of phase or content
+	now     func() time.Time // the vaults' clock (nil: time.Now); tests set it
+
+	// The Brief's patient block, held in memory for the life of the page
+	// and written into the vault's draft slot while it is unlocked
+	// (vault_draft.go). patientGen counts changes; savedGen is the
+	// change last written to the vault.
+	patient    PatientDraft
+	patientSet bool
+	patientGen uint64
+	savedGen   uint64
+	draftMu    sync.Mutex // one draft-slot write at a time, the newest last
 }
 
 // theVault is the app's one vault session. The store opener and the key
@@ -135,19 +146,26 @@ func (s *vaultSession) Load(ctx context.Context) error {
 	return err
 }
 
-// adopt installs an unlocked vault and its auto-lock.
-func (s *vaultSession) adopt(v *logbook.Vault) {
+// adopt installs an unlocked vault and its auto-lock, then brings the
+// Brief's patient block and the vault's draft slot together (restoring the
+// saved block, or saving the one on screen) before telling the screens.
+func (s *vaultSession) adopt(ctx context.Context, v *logbook.Vault) {
 	s.mu.Lock()
 	s.vault, s.phase = v, phaseUnlocked
-	idle := s.idle
+	idle, now := s.idle, s.now
 	s.mu.Unlock()
+	if now != nil {
+		v.SetClock(now)
+	}
 	v.SetAutoLock(idle, s.onLock)
+	s.restoreDraftPatient(ctx, v)
 	s.changed()
 }
 
-// onLock runs after any lock of the vault (button or idle time).
+// onLock runs after any lock of the vault (button or idle time). The
+// patient block on the Brief stays in memory (vault_draft.go says why); it
+// is no longer saved until the vault is unlocked again.
 func (s *vaultSession) onLock() {
-	forgetDraftPatient(s)
 	s.mu.Lock()
 	if s.phase == phaseUnlocked {
 		s.phase = phaseLocked
@@ -169,7 +187,7 @@ func (s *vaultSession) Create(ctx context.Context, passphrase string) error {
 	if err != nil {
 		return err
 	}
-	s.adopt(v)
+	s.adopt(ctx, v)
 	return nil
 }
 
@@ -188,7 +206,7 @@ func (s *vaultSession) Unlock(ctx context.Context, passphrase string) error {
 	if err := v.Unlock(ctx, passphrase); err != nil {
 		return err
 	}
-	s.adopt(v)
+	s.adopt(ctx, v)
 	return nil
 }
 
@@ -205,7 +223,7 @@ func (s *vaultSession) Import(ctx context.Context, bundle []byte, passphrase str
 	if err != nil {
 		return err
 	}
-	s.adopt(v)
+	s.adopt(ctx, v)
 	return nil
 }
 
@@ -218,6 +236,14 @@ func (s *vaultSession) Lock() {
 	if v != nil {
 		v.Lock() // calls onLock when it was unlocked
 	}
+}
+
+// IdleLock returns the auto-lock time the session applies (0 or less:
+// never).
+func (s *vaultSession) IdleLock() time.Duration {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.idle
 }
 
 // Touch postpones the auto-lock: the crew is using the app.

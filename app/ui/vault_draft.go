@@ -1,80 +1,207 @@
 package ui
 
 import (
-	"sync"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"alvea/app/logbook"
 )
 
-// sessionDraftStore keeps the Brief draft without putting patient values in
-// plain browser storage: the route, legs, supply and policy go to the base
-// store (localStorage), the patient block is held in memory by the vault
-// session only, and is dropped when the crew locks the logbook.
+// The Brief draft without patient values in plain browser storage.
 //
-// A patient block a previous version left in localStorage is moved into
-// memory on first load and removed from localStorage.
+// vaultDraftStore keeps the route, legs, supply and policy in localStorage
+// (localDraftStore: they say nothing about the patient) and the patient
+// block in the vault session:
 //
-// Limits (see the report of this change): the patient block does not
-// survive a reload. Keeping it across reloads inside the vault needs a
-// sealed slot outside the append-only chain, which package logbook does
-// not offer yet.
-type sessionDraftStore struct {
-	base    DraftStore
+//   - in memory, always, for the life of the page: the Brief, the Supply
+//     screen and "start transport" read it from there;
+//   - and, while the vault is unlocked, sealed in the vault's draft slot
+//     (logbook.Vault.SaveDraft), written a moment after the last edit like
+//     the rest of the draft. That copy survives a reload and a browser
+//     restart, and is read back when the vault is unlocked.
+//
+// While the vault is locked or absent the block is kept in memory only, and
+// the Brief's patient card says so: a reload then loses it.
+//
+// At unlock (or create, or import) the session brings the two together:
+// if no patient value is held in memory (a reload), the saved block is
+// restored; if the crew typed values while the vault was locked, those on
+// screen win and are saved into the vault. Unlocking never overwrites what
+// the crew can see.
+//
+// Locking (the button, or the idle time on the apron) drops the key but
+// keeps the patient block in memory: the values are on the Brief's screen
+// anyway, and wiping a half-typed brief because the tablet sat idle for
+// five minutes would cost the crew more than it protects. What lock does
+// change: nothing more is saved, and the note on the patient card comes
+// back, until the vault is unlocked again. A reload clears the memory.
+//
+// A patient block an earlier version left in plain localStorage
+// (draftPatientKey) is moved into memory (unless values are already held)
+// and deleted from localStorage at the first load; it reaches the vault at
+// the next unlock.
+type vaultDraftStore struct {
 	session *vaultSession
 }
 
-var _ DraftStore = sessionDraftStore{}
-
-// draftPatients holds the patient block per session.
-var draftPatients = struct {
-	sync.Mutex
-	m map[*vaultSession]*PatientDraft
-}{m: map[*vaultSession]*PatientDraft{}}
+var _ DraftStore = vaultDraftStore{}
 
 // draftStoreFor returns the Brief's draft store bound to a vault session.
-func draftStoreFor(s *vaultSession) DraftStore {
-	return sessionDraftStore{base: localDraftStore{}, session: s}
+func draftStoreFor(s *vaultSession) DraftStore { return vaultDraftStore{session: s} }
+
+func (d vaultDraftStore) Load(ctx app.Context) (BriefDraft, bool, error) {
+	draft, found, err := localDraftStore{}.Load(ctx)
+	if old, ok := takeOldPatient(ctx); ok {
+		if d.session.adoptOldPatient(old) && d.session.unlocked() != nil {
+			ctx.Async(func() { d.session.saveDraftPatientLogged(context.Background()) })
+		}
+	}
+	if p, ok := d.session.DraftPatient(); ok {
+		draft.Patient = p
+		found = true
+	}
+	return draft, found, err
 }
 
-func (d sessionDraftStore) Load(ctx app.Context) (BriefDraft, bool, error) {
-	draft, found, err := d.base.Load(ctx)
+func (d vaultDraftStore) Save(ctx app.Context, draft BriefDraft) error {
+	err := localDraftStore{}.Save(ctx, draft)
+	if d.session.KeepDraftPatient(draft.Patient) && d.session.unlocked() != nil {
+		// The vault blocks on IndexedDB: write from a goroutine. Go runs it
+		// up to its first wait before handing back to the browser, so a
+		// save started as the page is hidden has its write issued.
+		ctx.Async(func() { d.session.saveDraftPatientLogged(context.Background()) })
+	}
+	return err
+}
+
+// patientEmpty reports whether no patient value is typed (where they were
+// measured is a choice, not a value).
+func patientEmpty(p PatientDraft) bool {
+	for _, e := range []Entry{p.FiO2, p.PaO2, p.SpO2, p.PaCO2, p.RQ, p.Temperature, p.Hb, p.Age} {
+		if e.T != "" {
+			return false
+		}
+	}
+	return true
+}
+
+// DraftPatient returns the patient block held in memory, and whether one
+// is held.
+func (s *vaultSession) DraftPatient() (PatientDraft, bool) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.patient, s.patientSet
+}
+
+// KeepDraftPatient holds p in memory and reports whether it differs from
+// what was held (then a save into the vault is due). It never blocks.
+func (s *vaultSession) KeepDraftPatient(p PatientDraft) bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.patientSet && s.patient == p {
+		return false
+	}
+	s.patient, s.patientSet = p, true
+	s.patientGen++
+	return true
+}
+
+// adoptOldPatient holds a block migrated from plain storage, unless values
+// are already held; it reports whether it took it.
+func (s *vaultSession) adoptOldPatient(p PatientDraft) bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.patientSet && !patientEmpty(s.patient) {
+		return false
+	}
+	s.patient, s.patientSet = p, true
+	s.patientGen++
+	return true
+}
+
+// SaveDraftPatient writes the block held in memory into the vault's draft
+// slot, if it changed since the last write. It blocks on the store: call it
+// from a goroutine. Writes are serialised and each writes the newest block,
+// so the slot never ends older than memory. Locked: logbook.ErrLocked.
+func (s *vaultSession) SaveDraftPatient(ctx context.Context) error {
+	s.draftMu.Lock()
+	defer s.draftMu.Unlock()
+	v := s.unlocked()
+	if v == nil {
+		return logbook.ErrLocked
+	}
+	s.mu.Lock()
+	p, gen, saved := s.patient, s.patientGen, s.savedGen
+	s.mu.Unlock()
+	if gen == saved {
+		return nil
+	}
+	plain, err := json.Marshal(storedPatient{Schema: draftSchema, Patient: p})
 	if err != nil {
-		return draft, found, err
+		return fmt.Errorf("ui: encoding the patient draft: %w", err)
 	}
-	empty := NewBriefDraft().Patient
-	draftPatients.Lock()
-	held := draftPatients.m[d.session]
-	if held == nil && draft.Patient != empty {
-		// Move a plain-storage patient block into memory.
-		p := draft.Patient
-		held = &p
-		draftPatients.m[d.session] = held
+	if err := v.SaveDraft(ctx, plain); err != nil {
+		return err
 	}
-	draftPatients.Unlock()
-	if draft.Patient != empty {
-		ctx.LocalStorage().Del(draftPatientKey)
+	s.mu.Lock()
+	if gen > s.savedGen {
+		s.savedGen = gen
 	}
-	if held != nil {
-		draft.Patient = *held
-	} else {
-		draft.Patient = empty
-	}
-	return draft, found, nil
+	s.mu.Unlock()
+	return nil
 }
 
-func (d sessionDraftStore) Save(ctx app.Context, draft BriefDraft) error {
-	p := draft.Patient
-	draftPatients.Lock()
-	draftPatients.m[d.session] = &p
-	draftPatients.Unlock()
-	d.session.Touch()
-	draft.Patient = NewBriefDraft().Patient
-	return d.base.Save(ctx, draft)
+// saveDraftPatientLogged saves and logs a failure. The log line names the
+// error only (the vault's and the store's errors carry no patient value).
+func (s *vaultSession) saveDraftPatientLogged(ctx context.Context) {
+	if err := s.SaveDraftPatient(ctx); err != nil && !errors.Is(err, logbook.ErrLocked) {
+		app.Log("ui: the patient draft was not saved in the logbook:", err)
+	}
 }
 
-// forgetDraftPatient drops the patient block held for the session.
-func forgetDraftPatient(s *vaultSession) {
-	draftPatients.Lock()
-	delete(draftPatients.m, s)
-	draftPatients.Unlock()
+// restoreDraftPatient runs at unlock, before the screens hear of it: with
+// no patient value in memory it restores the vault's saved block; with
+// values in memory (typed while locked) it saves them. A saved block that
+// no longer opens (damaged, or of an older shape) is dropped.
+func (s *vaultSession) restoreDraftPatient(ctx context.Context, v *logbook.Vault) {
+	s.mu.Lock()
+	held := s.patientSet && !patientEmpty(s.patient)
+	s.mu.Unlock()
+	if held {
+		s.mu.Lock()
+		s.savedGen = 0 // whatever the slot holds is not what is on screen
+		s.mu.Unlock()
+		s.saveDraftPatientLogged(ctx)
+		return
+	}
+	plain, err := v.LoadDraft(ctx)
+	switch {
+	case errors.Is(err, logbook.ErrNoDraft):
+		return
+	case errors.Is(err, logbook.ErrDamaged):
+	case err != nil:
+		app.Log("ui: reading the patient draft from the logbook:", err)
+		return
+	}
+	var sp storedPatient
+	if err != nil || json.Unmarshal(plain, &sp) != nil || sp.Schema != draftSchema {
+		// No detail in the log: a decoding error could quote the text.
+		app.Log("ui: the patient draft saved in the logbook cannot be used; it is dropped")
+		if cerr := v.ClearDraft(ctx); cerr != nil {
+			app.Log("ui: clearing the patient draft:", cerr)
+		}
+		return
+	}
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.patientSet && !patientEmpty(s.patient) {
+		return // values typed meanwhile win
+	}
+	s.patient, s.patientSet = sp.Patient, true
+	s.patientGen++
+	s.savedGen = s.patientGen
 }
