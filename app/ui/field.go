@@ -1,6 +1,8 @@
 package ui
 
 import (
+	"sync"
+
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 )
 
@@ -20,11 +22,66 @@ import (
 //	alv-button     a button (alv-primary for the main action)
 //	alv-caution    the clinical caution (see newCaution)
 
+// Clearing a typed field. go-app (v10.1.11) drops an empty value from an
+// element's attributes instead of setting it, and on the next update calls
+// removeAttribute("value") — while it writes every other value to the
+// input's value property. Removing an attribute that is not there changes
+// nothing: a field whose value goes back to "" in the component (a saved
+// entry, "new transport") kept showing the old text.
+//
+// The fields made here carry data-empty="1" exactly when their rendered
+// value is "". go-app sets that attribute on the element when the value
+// becomes "", and one observer per page then empties the field on screen.
+// A person clearing a field by typing is unaffected (it is already empty);
+// a key typed in the instant before is written back by the next update,
+// which sets the value property again.
+const emptyAttr = "empty" // data-empty
+
+var clearWatch sync.Once
+
+// watchClearedFields installs the observer once, in the browser only.
+func watchClearedFields() {
+	if !app.IsClient {
+		return
+	}
+	clearWatch.Do(func() {
+		onChange := app.FuncOf(func(this app.Value, args []app.Value) any {
+			if len(args) == 0 {
+				return nil
+			}
+			records := args[0]
+			for i := 0; i < records.Length(); i++ {
+				el := records.Index(i).Get("target")
+				if el.Truthy() && el.Get("dataset").Get(emptyAttr).String() == "1" && el.Get("value").String() != "" {
+					el.Set("value", "")
+				}
+			}
+			return nil
+		})
+		observer := app.Window().Get("MutationObserver").New(onChange)
+		observer.Call("observe", app.Window().Get("document").Get("documentElement"), map[string]any{
+			"attributes":      true,
+			"attributeFilter": []any{"data-" + emptyAttr},
+			"subtree":         true,
+		})
+	})
+}
+
+// emptyMark marks input as rendered empty (see watchClearedFields).
+func emptyMark(input app.HTMLInput, value string) app.HTMLInput {
+	if value == "" {
+		return input.DataSet(emptyAttr, "1")
+	}
+	return input
+}
+
 // numberField renders a labelled numeric input with its unit beside it and
-// its message under it. The input uses inputmode="decimal" so a tablet shows
+// its message under it. A value set back to "" empties the field on
+// screen too (see watchClearedFields). The input uses inputmode="decimal" so a tablet shows
 // the numeric keyboard; aria-describedby ties the unit and the message to
 // the field, and aria-invalid marks a refused value. onInput receives the text as typed.
 func numberField(id, label, unit, value, message string, onInput func(ctx app.Context, text string)) app.UI {
+	watchClearedFields()
 	msgID, unitID := id+"-msg", id+"-unit"
 	describedBy := unitID
 	if message != "" {
@@ -43,6 +100,7 @@ func numberField(id, label, unit, value, message string, onInput func(ctx app.Co
 		OnInput(func(ctx app.Context, e app.Event) {
 			onInput(ctx, ctx.JSSrc().Get("value").String())
 		})
+	input = emptyMark(input, value)
 	return app.Div().Class("alv-field").Body(
 		app.Label().For(id).Text(label),
 		app.Div().Class("alv-input-row").Body(
@@ -57,6 +115,7 @@ func numberField(id, label, unit, value, message string, onInput func(ctx app.Co
 
 // textField is numberField for free text (no numeric keyboard, no unit).
 func textField(id, label, value, message string, onInput func(ctx app.Context, text string)) app.UI {
+	watchClearedFields()
 	msgID := id + "-msg"
 	input := app.Input().
 		ID(id).
@@ -71,6 +130,7 @@ func textField(id, label, value, message string, onInput func(ctx app.Context, t
 	if message != "" {
 		input = input.Aria("describedby", msgID)
 	}
+	input = emptyMark(input, value)
 	return app.Div().Class("alv-field").Body(
 		app.Label().For(id).Text(label),
 		app.Div().Class("alv-input-row").Body(input),

@@ -33,6 +33,7 @@ type supply struct {
 	policy   *supplyPolicy
 
 	gaugeText, flowText string // the fields as typed
+	confirmNew          bool   // "new transport" tapped: asking before clearing
 	messages            FieldErrors
 	now                 func() time.Time
 	tick                time.Duration // 0: no ticking (component tests)
@@ -307,8 +308,20 @@ func (s *supply) removeCylinder(ctx app.Context, i int) {
 	saveSupplySession(ctx, s.session)
 }
 
-// newTransport clears the readings (the cylinders stay).
+// askNewTransport asks, in the page, before the readings are cleared.
+func (s *supply) askNewTransport(ctx app.Context, e app.Event) {
+	s.confirmNew = true
+	// Take the focus to the question's safe answer once it is drawn.
+	ctx.Defer(func(ctx app.Context) {
+		if el := app.Window().GetElementByID("supply-new-keep"); el.Truthy() {
+			el.Call("focus")
+		}
+	})
+}
+
+// newTransport clears the readings (the cylinders stay), once confirmed.
 func (s *supply) newTransport(ctx app.Context, e app.Event) {
+	s.confirmNew = false
 	s.session.Readings = nil
 	s.session.InUse = 0
 	s.gaugeText, s.flowText = "", ""
@@ -562,7 +575,31 @@ func (s *supply) renderCylinders() app.UI {
 			app.If(!s.fromPlan, func() app.UI {
 				return app.Button().ID("supply-add").Type("button").Class("alv-button").Text("Add cylinder").OnClick(s.addCylinder)
 			}),
-			app.Button().ID("supply-new").Type("button").Class("alv-button").Text("New transport (clear readings)").OnClick(s.newTransport),
+			app.Button().ID("supply-new").Type("button").Class("alv-button").Text("New transport (clear readings)").
+				Aria("expanded", ariaBool(s.confirmNew)).Aria("controls", "supply-new-confirm").OnClick(s.askNewTransport),
+		),
+		app.If(s.confirmNew, func() app.UI { return s.renderConfirmNew() }),
+	)
+}
+
+// renderConfirmNew is the in-page question before the readings are
+// cleared: two buttons, neither pre-chosen by a second tap on the same spot.
+func (s *supply) renderConfirmNew() app.UI {
+	n := len(s.session.Readings)
+	q := fmt.Sprintf("Clear the %d reading(s) of this transport from this tablet?", n)
+	if n == 0 {
+		q = "There is no reading to clear. Start a new transport anyway?"
+	}
+	detail := "The cylinders stay. Readings already saved to a transport in the Logbook stay there."
+	return app.Div().ID("supply-new-confirm").Class("alv-confirm").Attr("role", "alertdialog").
+		Aria("labelledby", "supply-new-q").Aria("describedby", "supply-new-detail").Body(
+		app.P().ID("supply-new-q").Class("alv-confirm-q").Text(q),
+		app.P().ID("supply-new-detail").Class("alv-note").Text(detail),
+		app.Div().Class("alv-actions").Body(
+			app.Button().ID("supply-new-keep").Type("button").Class("alv-button alv-primary").Text("Keep the readings").
+				OnClick(func(ctx app.Context, e app.Event) { s.confirmNew = false }),
+			app.Button().ID("supply-new-clear").Type("button").Class("alv-button alv-danger").Text("Clear the readings").
+				OnClick(s.newTransport),
 		),
 	)
 }
