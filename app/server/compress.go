@@ -3,8 +3,6 @@ package server
 import (
 	"bytes"
 	"compress/gzip"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -215,8 +213,7 @@ func readCached(sum string, enc Encoding) ([]byte, bool) {
 	if err != nil {
 		return nil, false
 	}
-	h := sha256.Sum256(plain)
-	if hex.EncodeToString(h[:]) != sum {
+	if contentHash(plain) != sum {
 		return nil, false
 	}
 	now := time.Now()
@@ -304,13 +301,12 @@ func NewResources(root string) (*Resources, error) {
 	if err != nil {
 		return nil, fmt.Errorf("server: %w", err)
 	}
-	h := sha256.Sum256(data)
 	return &Resources{
 		files:  http.FileServer(http.Dir(root)),
 		wasm:   wasm,
 		size:   int64(len(data)),
 		mod:    st.ModTime(),
-		copies: copiesFor(hex.EncodeToString(h[:]), data),
+		copies: copiesFor(contentHash(data), data),
 	}, nil
 }
 

@@ -2,7 +2,6 @@ package server
 
 import (
 	"bytes"
-	"crypto/sha256"
 	"fmt"
 	"io"
 	"net/http"
@@ -215,7 +214,7 @@ func TestWasmCache(t *testing.T) {
 	CacheDir = t.TempDir()
 	defer func() { CacheDir = old }()
 	data := append(wasmLike(), "cache test"...) // a content no other test made
-	sum := fmt.Sprintf("%x", sha256.Sum256(data))
+	sum := contentHash(data)
 	c := copiesFor(sum, data)
 	if err := c.wait(); err != nil {
 		t.Fatal(err)

@@ -1,9 +1,9 @@
 package server
 
 import (
-	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
+	"hash/fnv"
 	"io"
 	"os"
 	"path/filepath"
@@ -17,7 +17,7 @@ import (
 // wasm_exec.js, and the go-app module version). The same build restarted
 // gives the same version, so a restart is not mistaken for an update.
 //
-// It is the first 20 hex digits of a SHA-256 over length-prefixed names and
+// It is the first 20 hex digits of a 128-bit FNV-1a hash over length-prefixed names and
 // contents, so no two file layouts can hash alike by concatenation.
 func Version(root string) (string, error) {
 	web := filepath.Join(root, "web")
@@ -25,7 +25,7 @@ func Version(root string) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	h := sha256.New()
+	h := fnv.New128a()
 	writeField := func(b []byte) {
 		fmt.Fprintf(h, "%d:", len(b))
 		h.Write(b)
@@ -65,4 +65,13 @@ func goAppVersion() string {
 		}
 	}
 	return "unknown"
+}
+
+// contentHash names a file's contents for caching: FNV-1a, 128 bits, in
+// hex. It tells builds apart; it is not a security measure (nothing here
+// defends against a forged file, and crypto stays in app/logbook).
+func contentHash(data []byte) string {
+	h := fnv.New128a()
+	h.Write(data)
+	return hex.EncodeToString(h.Sum(nil))
 }
