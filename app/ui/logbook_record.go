@@ -307,12 +307,20 @@ func (l *logbookScreen) saveGauge(ctx app.Context, e app.Event) {
 	r := &l.record
 	unit := l.units.PressureUnit
 	l.save(ctx, "gauge reading", func() (*logbook.Entry, error) {
-		p, err := physio.ParsePressure(lbWithUnit(r.gaugeText, unit))
-		if err != nil {
-			return nil, fmt.Errorf("Gauge reading: %s", err.Error())
-		}
-		return &logbook.Entry{Kind: logbook.KindGauge, Gauge: &logbook.GaugeReading{Cylinder: strings.TrimSpace(r.gaugeCyl), Pressure: p}}, nil
+		return lbGaugeEntry(r.gaugeCyl, r.gaugeText, unit)
 	}, func() { r.gaugeText = ""; lbClearInputs("lb-gauge-p") })
+}
+
+// lbGaugeEntry builds the gauge-reading entry of the cylinder labelled
+// cylinder from text, a pressure typed in unit (psi or bar) unless it names
+// its own. The Logbook's gauge form and the Supply screen both build their
+// entries with it.
+func lbGaugeEntry(cylinder, text, unit string) (*logbook.Entry, error) {
+	p, err := physio.ParsePressure(lbWithUnit(text, unit))
+	if err != nil {
+		return nil, fmt.Errorf("Gauge reading: %s", err.Error())
+	}
+	return &logbook.Entry{Kind: logbook.KindGauge, Gauge: &logbook.GaugeReading{Cylinder: strings.TrimSpace(cylinder), Pressure: p}}, nil
 }
 
 // lbReadObservation reads the observation form; empty fields stay absent.
