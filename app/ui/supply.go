@@ -39,10 +39,16 @@ type supply struct {
 	tick                time.Duration // 0: no ticking (component tests)
 	shown               time.Time     // the clock time of the last redraw
 	stop                chan struct{}
+
+	vault   *vaultSession // the Logbook's vault session; nil: no Logbook
+	unsub   func()
+	mctx    app.Context // the component's own context, for work that outlives an event
+	mounted bool        // mctx is set
+	link    supplyLink
 }
 
 func newSupply() *supply {
-	s := &supply{now: time.Now, tick: supplyTick}
+	s := &supply{now: time.Now, tick: supplyTick, vault: theVault}
 	s.load(DefaultSettings(), defaultSupplySession())
 	return s
 }
@@ -65,9 +71,11 @@ func (s *supply) load(st Settings, session SupplySession) {
 }
 
 func (s *supply) OnMount(ctx app.Context) {
+	s.mctx, s.mounted = ctx, true
 	s.load(LoadSettings(ctx), loadSupplySession(ctx))
 	s.adoptDraft(ctx)
 	ctx.ObserveState(SettingsKey, &s.settings).OnChange(func() { s.unitsChanged() })
+	s.watchLogbook(ctx)
 	if s.tick > 0 {
 		stop := make(chan struct{})
 		s.stop = stop
@@ -89,6 +97,10 @@ func (s *supply) OnMount(ctx app.Context) {
 }
 
 func (s *supply) OnDismount() {
+	if s.unsub != nil {
+		s.unsub()
+		s.unsub = nil
+	}
 	if s.stop != nil {
 		close(s.stop)
 		s.stop = nil
@@ -203,6 +215,7 @@ func (s *supply) edit(ctx app.Context, field, text string) {
 	case FieldSupplyFlow:
 		s.flowText = text
 	}
+	s.link.status, s.link.problem = "", ""
 	s.commit(ctx)
 }
 
@@ -248,8 +261,10 @@ func (s *supply) pickInUse(ctx app.Context, i int) {
 	s.session.InUse = i
 	c := s.session.Cylinders[i]
 	s.gaugeText = shownPressure(c.Gauge, c.GaugeUnit, s.settings.PressureUnit)
+	s.link.status, s.link.problem = "", ""
 	s.commit(ctx)
 	saveSupplySession(ctx, s.session)
+	s.logCylinderChange(ctx, i)
 }
 
 // The own cylinder list (used while no Brief draft gives one).
@@ -366,7 +381,10 @@ func (s *supply) renderReading() app.UI {
 	for i, c := range s.session.Cylinders {
 		choices[i] = choice{strconv.Itoa(i), fmt.Sprintf("%d · %s", i+1, c.Kind)}
 	}
-	return app.Div().Class("alv-card").Body(
+	return app.Form().ID("supply-reading").Class("alv-card").OnSubmit(func(ctx app.Context, e app.Event) {
+		e.PreventDefault()
+		s.logReading(ctx)
+	}).Body(
 		app.H2().Class("alv-card-title").Text("Gauge reading"),
 		segmented("supply-inuse", "Cylinder in use", strconv.Itoa(s.session.InUse), choices,
 			func(ctx app.Context, v string) {
@@ -380,6 +398,7 @@ func (s *supply) renderReading() app.UI {
 				func(ctx app.Context, v string) { s.edit(ctx, FieldSupplyFlow, v) }),
 		),
 		app.P().Class("alv-note").Text("Kept on this device as you type, with the time of the device clock."),
+		s.renderLogbook(),
 	)
 }
 

@@ -44,6 +44,9 @@ type SupplyReading struct {
 	Gauge       string `json:"gauge"`
 	GaugeUnit   string `json:"gaugeUnit"`
 	Flow        string `json:"flow"` // L/min
+
+	Log      *SupplyLogMark `json:"log,omitempty"`      // saved to the Logbook as this record
+	Corrects *SupplyLogMark `json:"corrects,omitempty"` // replaces a reading saved as this record
 }
 
 // At returns the time of the reading.
@@ -100,11 +103,20 @@ func (s SupplySession) lastReading() (SupplyReading, bool) {
 }
 
 // record adds r, or replaces the last reading when it is of the same
-// cylinder and less than readingMerge older (a correction).
+// cylinder and less than readingMerge older (a correction). A correction
+// of a reading saved to the Logbook remembers that record, so that saving
+// it corrects the record instead of adding a second reading.
 func (s *SupplySession) record(r SupplyReading) {
 	if n := len(s.Readings); n > 0 {
 		last := s.Readings[n-1]
 		if last.Cylinder == r.Cylinder && r.At().Sub(last.At()) < readingMerge {
+			r.Log, r.Corrects = nil, last.Corrects
+			if last.Log != nil {
+				r.Corrects = last.Log
+			}
+			if last.Gauge == r.Gauge && last.GaugeUnit == r.GaugeUnit && last.Flow == r.Flow {
+				r.Log, r.Corrects, r.AtUnixMilli = last.Log, last.Corrects, last.AtUnixMilli // nothing changed
+			}
 			s.Readings[n-1] = r
 			return
 		}
