@@ -68,7 +68,7 @@ func TestFieldClearedAfterTyping(t *testing.T) {
 	}
 	// Typing again after the clear works as before (back at the top of
 	// the page, where a person would scroll to reach the fields).
-	eval[bool](b, `(() => { window.scrollTo(0, 0); return true })()`)
+	b.toTop()
 	b.typeInto("#supply-gauge", "1800")
 	b.typeInto("#supply-flow", "4")
 	b.waitFor("a new countdown", `document.querySelector("#supply-minutes") !== null`, 10*time.Second)

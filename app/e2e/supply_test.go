@@ -137,3 +137,77 @@ func TestSupplyCountdownUnitsAndBadValue(t *testing.T) {
 	b.screenshot("supply", 1024, 768)
 	b.screenshot("supply", 768, 1024)
 }
+
+// A crew creates the logbook, starts a transport from the Brief, types a
+// gauge reading on Supply and saves it: it is in the transport's timeline,
+// as a reading of the transport's first cylinder, and a change of cylinder
+// on Supply is a cylinder-change event there; after a reload and unlock
+// both are still there. With the logbook locked, Supply says the readings
+// stay on this tablet.
+func TestSupplyReadingInLogbook(t *testing.T) {
+	draft, patient, _ := altitudeDraftScenario() // two E cylinders at 2000 psi
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.open(srv.URL("/"))
+	b.seedStorage(draftStorageKey, draft)
+	b.seedStorage(draftPatientStorageKey, patient)
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+	b.startTransport("Twin turboprop", "Harbour field", "Ridge clinic")
+	if got := b.text("#lb-record-title"); got != "Harbour field → Ridge clinic" {
+		t.Fatalf("record title %q", got)
+	}
+
+	b.tap("#tab-supply")
+	b.waitFor("the open transport on Supply", `document.querySelector("#supply-log-open") !== null`, 20*time.Second)
+	if !strings.Contains(b.text("#supply-log-open"), "Harbour field → Ridge clinic") {
+		t.Errorf("Supply names %q", b.text("#supply-log-open"))
+	}
+	b.toTop()
+	b.typeInto("#supply-gauge", "1700")
+	b.typeInto("#supply-flow", "4")
+	b.waitFor("the save button", `document.querySelector("#supply-log-save") !== null`, 10*time.Second)
+	b.tap("#supply-log-save")
+	b.waitFor("the reading saved", `document.querySelector("#supply-log-saved") !== null`, 20*time.Second)
+	if s := b.text("#supply-log-status"); !strings.Contains(s, "Saved to the logbook") || !strings.Contains(s, "E1") {
+		t.Errorf("status %q", s)
+	}
+	b.tap("#supply-inuse-1")
+	b.waitFor("the cylinder change saved", `(document.querySelector("#supply-log-status")?.textContent ?? "").includes("change to cylinder E2")`, 20*time.Second)
+
+	wantLines := []string{"Gauge E1: 1700 psi", "Event: cylinder-change (cylinder E2)"}
+	checkTimeline := func(when string) {
+		t.Helper()
+		b.tap("#tab-logbook")
+		b.waitLB("the list", `document.querySelector(".lb-open-row") !== null`, 30*time.Second)
+		b.toTop()
+		b.tap(".lb-open-row")
+		b.waitLB("the timeline", `document.querySelectorAll("#lb-timeline li[data-seq]").length >= 3`, 20*time.Second)
+		text := b.timelineText()
+		for _, w := range wantLines {
+			if !strings.Contains(text, w) {
+				t.Errorf("%s: the timeline lacks %q:\n%s", when, w, text)
+			}
+		}
+	}
+	checkTimeline("before reload")
+
+	b.reload()
+	b.tap("#tab-supply")
+	b.waitFor("the locked note", `(document.querySelector("#supply-log-note")?.textContent ?? "").includes("Logbook is locked")`, 20*time.Second)
+	if got := b.text("#supply-log-note"); !strings.Contains(got, "Kept on this tablet only; not in a transport record") {
+		t.Errorf("locked: %q", got)
+	}
+	b.tap("#tab-logbook")
+	b.waitLB("the unlock form", `document.querySelector("#lb-unlock") !== null`, 30*time.Second)
+	b.unlock(testPass)
+	checkTimeline("after reload and unlock")
+}
+
+// toTop scrolls the page to its top, as a person does after changing
+// screens (the page keeps the scroll of the screen before), so that a tap
+// never lands on the sticky tab bar over a field.
+func (b *browser) toTop() {
+	b.t.Helper()
+	eval[bool](b, `(() => { window.scrollTo(0, 0); return true })()`)
+}
