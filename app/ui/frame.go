@@ -120,10 +120,12 @@ func (f *frame) Render() app.UI {
 			app.Nav().Aria("label", "Screens").Body(
 				app.Ul().Class("alv-tabs").Body(tabs...),
 			),
+			// Short visible text so the six tabs still fit a portrait
+			// tablet; the accessible name starts with it (WCAG 2.5.3).
 			app.If(f.unlocked, func() app.UI {
 				return app.Button().ID("frame-lock").Type("button").Class("alv-button alv-frame-lock").
-					Title("Drop the logbook's key now (the Brief stays on screen)").
-					Text("Lock logbook").OnClick(f.lock)
+					Aria("label", "Lock logbook").Title("Lock the logbook now: its key is dropped, the Brief stays on screen").
+					Text("Lock").OnClick(f.lock)
 			}),
 		),
 		app.If(f.updateWaiting && !f.updateLater, func() app.UI {
