@@ -3,10 +3,15 @@
 package e2e
 
 import (
+	"context"
 	"fmt"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/chromedp/chromedp"
 
 	"alvea/physio"
 )
@@ -70,4 +75,81 @@ func TestAltitudeCabinBothWaysAndBadValue(t *testing.T) {
 	}
 	b.screenshot("altitude", 1024, 768)
 	b.screenshot("altitude", 768, 1024)
+}
+
+// plotTextSizes returns, for the SVG plot with the CSS selector, the
+// smallest rendered size of its text (the font size in the drawing's units
+// times the drawing's scale on screen), in CSS pixels.
+func (b *browser) plotTextSize(sel string) float64 {
+	b.t.Helper()
+	return eval[float64](b, fmt.Sprintf(`(() => {
+		const svg = document.querySelector(%q);
+		if (!svg) return 0;
+		const scale = svg.getScreenCTM().a;
+		let min = Infinity;
+		for (const t of svg.querySelectorAll("text")) min = Math.min(min, parseFloat(getComputedStyle(t).fontSize) * scale);
+		return min; })()`, sel))
+}
+
+// The two Altitude plots sit side by side on a 1024×768 landscape tablet
+// and one above the other on a 768×1024 portrait one; in both, every text
+// of the plots is drawn at 12 px or more, and the page does not scroll
+// sideways. Element screenshots of the plots go to the test output.
+func TestAltitudePlotTextLegible(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.open(srv.URL("/altitude"))
+	b.waitFor("the plots", `document.querySelector("#alt-spo2-plot") !== null`, 10*time.Second)
+	for _, vp := range []struct {
+		w, h       int64
+		sideBySide bool
+	}{{1024, 768, true}, {768, 1024, false}} {
+		b.viewport(vp.w, vp.h)
+		eval[chromedp.Void](b, `new Promise(r => requestAnimationFrame(() => requestAnimationFrame(() => r())))`)
+		for _, id := range []string{"#alt-gas-plot", "#alt-spo2-plot"} {
+			if px := b.plotTextSize(id); px < 12 {
+				t.Errorf("%d×%d: the smallest text of %s is %.1f px, want at least 12", vp.w, vp.h, id, px)
+			}
+		}
+		clipped := eval[[]string](b, `[...document.querySelectorAll("#alt-gas-plot, #alt-spo2-plot")].flatMap(svg => {
+			const box = svg.getBoundingClientRect();
+			return [...svg.querySelectorAll("text")].filter(t => { const r = t.getBoundingClientRect();
+				return r.left < box.left - 0.5 || r.right > box.right + 0.5 || r.top < box.top - 0.5 || r.bottom > box.bottom + 0.5 }).map(t => svg.id + ": " + t.textContent) })`)
+		if len(clipped) > 0 {
+			t.Errorf("%d×%d: text cut by the plot's edge: %q", vp.w, vp.h, clipped)
+		}
+		same := eval[bool](b, `Math.abs(document.querySelector("#alt-gas-plot").getBoundingClientRect().top - document.querySelector("#alt-spo2-plot").getBoundingClientRect().top) < 2`)
+		if same != vp.sideBySide {
+			t.Errorf("%d×%d: plots side by side = %v, want %v", vp.w, vp.h, same, vp.sideBySide)
+		}
+		if over := eval[bool](b, `document.documentElement.scrollWidth > window.innerWidth + 1`); over {
+			t.Errorf("%d×%d: the page scrolls sideways", vp.w, vp.h)
+		}
+		b.elementShot(".alv-plots-pair", fmt.Sprintf("altitude-plots-detail-%dx%d", vp.w, vp.h))
+	}
+	b.viewport(1024, 768)
+	b.screenshot("altitude-plots", 1024, 768)
+	b.screenshot("altitude-plots", 768, 1024)
+}
+
+// elementShot writes a PNG of the viewport with the element with the CSS
+// selector in its middle, at the size on screen, to
+// testoutput/screenshots/NAME.png (for a reviewer to read the text as
+// drawn).
+func (b *browser) elementShot(sel, name string) {
+	b.t.Helper()
+	eval[bool](b, fmt.Sprintf(`(() => { document.querySelector(%q).scrollIntoView({block: "center"}); return true })()`, sel))
+	ctx, cancel := context.WithTimeout(b.ctx, 60*time.Second)
+	defer cancel()
+	png, err := chromedp.Run(ctx, chromedp.CaptureScreenshot())
+	if err != nil {
+		b.t.Fatalf("screenshot of %s: %v", sel, err)
+	}
+	dir := filepath.Join(repoRoot, "testoutput", "screenshots")
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		b.t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, name+".png"), png, 0o644); err != nil {
+		b.t.Fatal(err)
+	}
 }

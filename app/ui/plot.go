@@ -31,7 +31,7 @@ const (
 	plotNarrowWidth = 440.0 // a plot in half a card (Narrow)
 	plotLeft        = 72.0  // room for tick labels and the y-axis title
 	plotRight       = 34.0
-	plotNarrowRight = 22.0
+	plotNarrowRight = 32.0 // room for half of the last x tick label
 	plotTop         = 20.0
 	plotBottom      = 58.0 // room for tick labels and the x-axis title
 	plotMaxTick     = 6
