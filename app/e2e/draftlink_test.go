@@ -9,6 +9,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/chromedp"
 	"github.com/shopspring/decimal"
 
 	"alvea/physio"
@@ -75,6 +76,13 @@ type seedPatient struct {
 	} `json:"patient"`
 }
 
+// openBlank loads a plain file of the app's origin (no app on it), so that
+// storage can be seeded before the app first starts.
+func (b *browser) openBlank(srv *testServer) {
+	b.t.Helper()
+	b.must("navigate to a plain file", chromedp.Navigate(srv.URL("/web/icon.svg")))
+}
+
 // seedStorage writes key = JSON of v into the page's localStorage.
 func (b *browser) seedStorage(key string, v any) {
 	b.t.Helper()
@@ -135,9 +143,9 @@ func floorL(v physio.Volume) string {
 func TestSupplyAdoptsBriefDraft(t *testing.T) {
 	srv := startApp(t, repoRoot)
 	b := newBrowser(t, t.TempDir())
-	b.open(srv.URL("/supply"))
+	b.openBlank(srv)
 	b.seedStorage(draftStorageKey, supplyDraftScenario())
-	b.reload()
+	b.open(srv.URL("/supply"))
 
 	b.waitFor("three cylinders from the draft", `document.querySelector("#supply-inuse-2") !== null`, 10*time.Second)
 	if b.exists("#supply-inuse-3") {
@@ -300,10 +308,10 @@ func TestAltitudeAdoptsBriefDraft(t *testing.T) {
 	}
 	srv := startApp(t, repoRoot)
 	b := newBrowser(t, t.TempDir())
-	b.open(srv.URL("/"))
+	b.openBlank(srv)
 	b.seedStorage(draftStorageKey, draft)
 	b.seedStorage(draftPatientStorageKey, patient)
-	b.reload() // the Brief loads the draft (and takes the patient block in)
+	b.open(srv.URL("/")) // the Brief loads the draft (and takes the patient block in)
 	b.tap("#tab-altitude")
 	b.waitFor("the route from the draft", `document.querySelector("#alt-cruise")?.value === "27000"`, 10*time.Second)
 

@@ -148,7 +148,7 @@ func TestSupplyReadingInLogbook(t *testing.T) {
 	draft, patient, _ := altitudeDraftScenario() // two E cylinders at 2000 psi
 	srv := startApp(t, repoRoot)
 	b := newBrowser(t, t.TempDir())
-	b.open(srv.URL("/"))
+	b.openBlank(srv)
 	b.seedStorage(draftStorageKey, draft)
 	b.seedStorage(draftPatientStorageKey, patient)
 	b.openLogbook(srv.URL("/logbook"))
