@@ -1,9 +1,13 @@
 package ui
 
 import (
+	"math"
 	"strconv"
 	"strings"
 	"testing"
+	"time"
+
+	"alvea/physio"
 )
 
 func mountAltitude(t *testing.T) *altitude {
@@ -122,5 +126,128 @@ func TestAltitudeUnits(t *testing.T) {
 	}
 	if a.text[FieldAltPaCO2] != "5.3" {
 		t.Errorf("PaCO2 shown as %q kPa, want 5.3 (40 mmHg)", a.text[FieldAltPaCO2])
+	}
+}
+
+// briefDraftFor is a Brief draft of our own (invented): sea level to
+// 3000 ft, a 5.5 psi aircraft at 24 000 ft, the patient on air, three legs
+// (the flight on room air), two E cylinders.
+func briefDraftFor() BriefDraft {
+	d := NewBriefDraft()
+	d.Route = RouteDraft{Origin: Entry{T: "0", U: UnitFeet}, Destination: Entry{T: "3000", U: UnitFeet},
+		Cruise: Entry{T: "24000", U: UnitFeet}, Cabin: CabinPressurised, Differential: Entry{T: "5.5", U: UnitPsi}}
+	d.Legs = []LegDraft{
+		{Where: "origin", Minutes: Entry{T: "10"}, Device: "room_air"},
+		{Where: "cabin", Minutes: Entry{T: "60"}, Device: "room_air"},
+		{Where: "destination", Minutes: Entry{T: "10"}, Device: "room_air"},
+	}
+	d.Patient = PatientDraft{FiO2: Entry{T: "0.21"}, PaO2: Entry{T: "80", U: UnitMmHg}, MeasuredAt: "origin"}
+	d.Supply = []SupplyDraft{{Kind: "E", Pressure: Entry{T: "2000", U: UnitPsi}, Count: Entry{T: "2"}}}
+	return d
+}
+
+// Altitude takes the route and the patient of a complete draft (PaCO2, RQ
+// and temperature the plan's defaults when the Brief leaves them out) and
+// shows physio.ComputePlan's cabin altitude and flight-leg oxygen for it.
+func TestAltitudeAdoptsDraft(t *testing.T) {
+	parts := readDraftParts(briefDraftFor(), DefaultSettings())
+	if parts.result == nil || !parts.route || !parts.patient {
+		t.Fatalf("the draft is not complete: %+v", parts)
+	}
+	a := mountAltitude(t)
+	a.adoptParts(parts)
+	for id, want := range map[string]string{FieldAltOrigin: "0", FieldAltDest: "3000", FieldAltCruise: "24000", FieldAltDiff: "5.5",
+		FieldAltFiO2: "0.21", FieldAltPaO2: "80", FieldAltPaCO2: "40", FieldAltRQ: "0.8", FieldAltTemp: "37", FieldAltCabinStat: ""} {
+		if a.text[id] != want {
+			t.Errorf("%s = %q, want %q", id, a.text[id], want)
+		}
+	}
+	html := rendered(t, a)
+	flight := parts.result.Legs[1]
+	for id, want := range map[string]string{
+		"alt-cabin":    parts.result.CabinAltitudeFt.String(),
+		"alt-pao2-alv": flight.PAO2MmHg.Decimal.RoundFloor(0).String(),
+		"alt-pao2-art": flight.PaO2ExpectedMmHg.Decimal.RoundFloor(0).String(),
+		"alt-spo2":     flight.SpO2ExpectedPercent.Decimal.RoundFloor(0).String(),
+	} {
+		if got := htmlText(html, id); got != want {
+			t.Errorf("%s = %q, want %q (physio.ComputePlan)", id, got, want)
+		}
+	}
+	if !strings.Contains(html, "Route and patient from the Brief") {
+		t.Error("the screen does not say where its values come from")
+	}
+}
+
+// A patient given by SpO2 only: the PaO2 field takes physio's PaO2 at that
+// SpO2 on the standard curve, rounded down to 0.1 mmHg, and says so; a
+// draft whose patient is incomplete leaves the example patient and says
+// that too. A stated cabin altitude is used as it is, the cruise may then be
+// empty.
+func TestAltitudeDraftPartsAndStatedCabin(t *testing.T) {
+	d := briefDraftFor()
+	d.Patient.PaO2, d.Patient.SpO2 = Entry{}, Entry{T: "92"}
+	parts := readDraftParts(d, DefaultSettings())
+	a := mountAltitude(t)
+	a.adoptParts(parts)
+	p, err := physio.PO2AtSaturation(physio.Percent(92))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _ := physio.Round(p.MmHg(), 1, physio.RoundDown)
+	if a.text[FieldAltPaO2] != want.String() || !strings.Contains(a.pao2Note, "SpO2 of 92 %") {
+		t.Errorf("PaO2 %q (note %q), want %s from SpO2 92 %%", a.text[FieldAltPaO2], a.pao2Note, want)
+	}
+	// Severinghaus 1979: SpO2 92 % is about 64 mmHg (standard curve; from
+	// memory, within 1 mmHg).
+	if v := p.MmHg(); v < 63 || v > 65.5 {
+		t.Errorf("PaO2 at 92 %% = %v mmHg, want about 64", v)
+	}
+
+	d = briefDraftFor()
+	d.Patient.FiO2 = Entry{}
+	d.Route.Cabin, d.Route.Cruise, d.Route.CabinAltitude = CabinStated, Entry{}, Entry{T: "6500", U: UnitFeet}
+	parts = readDraftParts(d, DefaultSettings())
+	if parts.patient || !parts.route || parts.result != nil {
+		t.Fatalf("parts: route %v patient %v", parts.route, parts.patient)
+	}
+	a = mountAltitude(t)
+	a.adoptParts(parts)
+	if a.text[FieldAltFiO2] != "0.21" || a.text[FieldAltPaO2] != "95" {
+		t.Errorf("the example patient was replaced by an incomplete one: %q %q", a.text[FieldAltFiO2], a.text[FieldAltPaO2])
+	}
+	html := rendered(t, a)
+	if !strings.Contains(html, "the patient values are an example") {
+		t.Error("the screen does not say the patient is an example")
+	}
+	if a.text[FieldAltCruise] != "" || htmlText(html, "alt-cabin") != "6500" || !strings.Contains(html, "stated by the pilot") {
+		t.Errorf("stated cabin: cruise %q, cabin %q", a.text[FieldAltCruise], htmlText(html, "alt-cabin"))
+	}
+	if htmlText(html, FieldAltCruise+"-msg") != "" {
+		t.Error("an empty cruise is refused while a cabin altitude is stated")
+	}
+}
+
+// Supply takes the cylinders, legs and reserve policy of a draft with no
+// patient.
+func TestSupplyAdoptsDraftWithoutPatient(t *testing.T) {
+	d := briefDraftFor()
+	d.Patient = NewBriefDraft().Patient
+	d.Policy = PolicyDraft{Override: true, Residual: Entry{T: "20", U: UnitBar}, Factor: Entry{T: "1"}, Minutes: Entry{T: "15"}, SpO2Target: Entry{T: "94"}}
+	parts := readDraftParts(d, DefaultSettings())
+	if parts.result != nil || parts.patient || !parts.supply || !parts.legs || !parts.policy {
+		t.Fatalf("parts: %+v", parts)
+	}
+	s, _, _, _ := mountSupply(t)
+	s.adoptParts(parts)
+	if len(s.session.Cylinders) != 2 || !s.fromPlan {
+		t.Fatalf("cylinders %+v", s.session.Cylinders)
+	}
+	if len(s.legs) != 3 || s.legs[1].Start != 10 || s.legs[1].Minutes != 60 || s.legs[2].Start != 70 {
+		t.Errorf("legs %+v, want 0–10, 10–70, 70–80 min", s.legs)
+	}
+	res, added, msg := s.residual()
+	if msg != "" || math.Abs(res.Bar()-20) > 1e-12 || added != 15*time.Minute {
+		t.Errorf("residual %v bar, reserve %v (%q), want the Brief's 20 bar and 15 min", res.Bar(), added, msg)
 	}
 }

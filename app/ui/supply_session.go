@@ -12,12 +12,11 @@ import (
 
 // SupplyKey is the go-app state (persisted in localStorage) holding the
 // Supply screen's session: the cylinders on board when no Brief draft gives
-// them, the cylinder in use and the gauge readings of the transport.
-//
-// TODO(logbook): the readings belong to the transport record. When the
-// encrypted Logbook can take an open transport, move Readings there and keep
-// only the fields being typed here. They hold gauge pressures, flows and
-// times only: nothing about the patient.
+// them, the cylinder in use and the gauge readings of the transport. The
+// readings are also saved to the transport open in the encrypted Logbook
+// when there is one (supply_logbook.go); this copy keeps the countdown
+// going with the logbook locked. It holds gauge pressures, flows, times and
+// the logbook's record numbers only: nothing about the patient.
 const SupplyKey = "alvea.supply"
 
 const supplySchema = 1
