@@ -234,8 +234,9 @@ func TestSupplyAdoptsDraftWithoutPatient(t *testing.T) {
 	d := briefDraftFor()
 	d.Patient = NewBriefDraft().Patient
 	d.Policy = PolicyDraft{Override: true, Residual: Entry{T: "20", U: UnitBar}, Factor: Entry{T: "1"}, Minutes: Entry{T: "15"}, SpO2Target: Entry{T: "94"}}
+	d.Legs[1].Device = "" // a set-up still to choose: the legs' minutes are enough here
 	parts := readDraftParts(d, DefaultSettings())
-	if parts.result != nil || parts.patient || !parts.supply || !parts.legs || !parts.policy {
+	if parts.result != nil || parts.patient || !parts.supply || parts.legs || !parts.policy {
 		t.Fatalf("parts: %+v", parts)
 	}
 	s, _, _, _ := mountSupply(t)

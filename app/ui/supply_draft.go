@@ -95,9 +95,11 @@ type legBand struct {
 
 // draftLegs returns the legs of the draft on the transport clock: the
 // computed plan's when there is one, otherwise the legs' own minutes laid
-// end to end in their order (as the plan lays them).
+// end to end in their order (as the plan lays them) when every leg has
+// valid minutes — a leg's set-up still to be chosen does not move the
+// clock.
 func (p draftParts) draftLegs() []legBand {
-	if !p.legs || p.doc == nil {
+	if p.doc == nil || len(p.doc.Legs) == 0 {
 		return nil
 	}
 	var out []legBand
