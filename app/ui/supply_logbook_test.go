@@ -90,8 +90,8 @@ func TestSupplySavesToOpenTransport(t *testing.T) {
 	if len(tr.Gauges) != 1 || tr.Gauges[0].Value.Cylinder != "E1" {
 		t.Fatalf("gauge entries: %+v", tr.Gauges)
 	}
-	// 1500 psi = 10.342 MPa (1 psi = 6894.757 Pa, GNU units).
-	if p := tr.Gauges[0].Value.Pressure.Pascals(); math.Abs(p-1500*6894.757293168361) > 1e-3 {
+	// GNU units: `units -d 15 -t '1500 psi' Pa` → 10342135.9397525.
+	if p := tr.Gauges[0].Value.Pressure.Pascals(); math.Abs(p-10342135.9397525) > 1e-3 {
 		t.Errorf("saved pressure %v Pa, want 1500 psi", p)
 	}
 	if !tr.Gauges[0].At.Equal(r.At().Truncate(time.Millisecond)) {
