@@ -187,16 +187,34 @@ func TestBriefFullPlan(t *testing.T) {
 	check("b-r-leg1-pao2", physio.Number{Decimal: pao2k}, "kPa")
 	check("b-r-need", want.OxygenNeededL, "L") // unchanged: the stored values are the ones typed in ft
 
-	// The draft survives a reload (saved a moment after the last key).
+	// The draft survives a reload (saved a moment after the last key):
+	// route, legs and cylinders at once. With no logbook the patient block
+	// is kept in memory only, so it is empty after the reload and its card
+	// says why (draft_test.go reloads with the logbook: the patient block
+	// comes back, sealed).
 	b.waitFor("the draft saved", `(localStorage.getItem("alvea.brief.draft") ?? "").includes("25000")`, 10*time.Second)
 	b.reload()
+	b.waitFor("the draft after reload", `document.querySelector("#b-leg1-flow")?.value === "6"`, 15*time.Second)
+	for sel, want := range map[string]string{"#b-rt-diff": "6.5", "#b-leg0-min": "20", "#b-leg2-flow": "2", "#b-sup0-count": "2"} {
+		if got := b.value(sel); got != want {
+			t.Errorf("after reload %s = %q, want %q", sel, got, want)
+		}
+	}
+	if got := b.value("#b-pt-fio2"); got != "" {
+		t.Errorf("after reload with no logbook patient FiO2 = %q, want empty (memory only)", got)
+	}
+	b.waitFor("the note on the patient card", `(document.querySelector("#b-pt-kept")?.textContent ?? "").includes("Create the logbook")`, 10*time.Second)
+	if note := b.text("#b-pt-kept"); !strings.Contains(note, "only in memory") {
+		t.Errorf("patient card note = %q", note)
+	}
+	// Patient values back (typed again, with their unit: the display is
+	// in kPa now): the plan as before.
+	b.typeInto("#b-pt-fio2", "0.28")
+	b.typeInto("#b-pt-pao2", "85 mmHg")
+	b.typeInto("#b-pt-paco2", "40 mmHg")
+	b.typeInto("#b-pt-hb", "13")
+	b.typeInto("#b-pt-age", "60")
 	b.waitFor("the plan after reload", `document.querySelector("#b-r-need-v")?.textContent === "`+want.OxygenNeededL.String()+`"`, 15*time.Second)
-	if got := b.value("#b-leg1-flow"); got != "6" {
-		t.Errorf("after reload leg 2 flow = %q, want 6", got)
-	}
-	if got := b.value("#b-pt-fio2"); got != "0.28" {
-		t.Errorf("after reload patient FiO2 = %q, want 0.28", got)
-	}
 
 	// Accessibility and screenshots.
 	if v := b.axe(); len(v) > 0 {

@@ -150,9 +150,16 @@ func TestBriefDraftPatientSealedInVault(t *testing.T) {
 	if w, h := b.drSize("#frame-lock"); w < 44 || h < 44 {
 		t.Errorf("Lock button %v×%v px, want at least 44×44", w, h)
 	}
-	if name := eval[string](b, `document.querySelector("#frame-lock").textContent.trim()`); name != "Lock logbook" {
-		t.Errorf("Lock button name %q", name)
+	// The accessible name begins with the visible text (WCAG 2.5.3).
+	if name, text := eval[string](b, `document.querySelector("#frame-lock").getAttribute("aria-label")`), b.text("#frame-lock"); name != "Lock logbook" || text != "Lock" {
+		t.Errorf("Lock button: name %q, text %q", name, text)
 	}
+	// All six tabs stay in view beside it on a portrait tablet.
+	b.viewport(768, 1024)
+	if clipped := eval[[]string](b, `Array.from(document.querySelectorAll(".alv-tab")).filter(a => { const r = a.getBoundingClientRect(), n = a.closest("nav").getBoundingClientRect(); return r.right > n.right + 0.5 || r.left < n.left - 0.5 }).map(a => a.textContent)`); len(clipped) > 0 {
+		t.Errorf("tabs cut off beside the Lock button at 768 px: %v", clipped)
+	}
+	b.viewport(1024, 768)
 	b.screenshot("brief-unlocked", 1024, 768)
 	b.screenshot("brief-unlocked", 768, 1024)
 

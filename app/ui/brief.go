@@ -70,6 +70,7 @@ func newBriefWith(store DraftStore) *brief {
 const (
 	notePatientLocked  = "Patient values stay only in memory until the logbook is unlocked: a reload clears them. Unlock the logbook to keep them across a reload."
 	notePatientNoVault = "Patient values stay only in memory: a reload clears them. Create the logbook to keep them across a reload."
+	notePatientNoStore = "Patient values stay only in memory: this browser gives the logbook no storage, so a reload clears them."
 )
 
 // patientNoteFor returns the patient card's note for the session's phase.
@@ -80,8 +81,10 @@ func patientNoteFor(session *vaultSession) string {
 	switch phase, _ := session.Phase(); phase {
 	case phaseUnlocked:
 		return ""
-	case phaseEmpty, phaseUnavailable:
+	case phaseEmpty:
 		return notePatientNoVault
+	case phaseUnavailable:
+		return notePatientNoStore
 	}
 	return notePatientLocked
 }

@@ -399,3 +399,42 @@ func TestSettingsScreenAutoLockField(t *testing.T) {
 		t.Error("the message stays after a valid value")
 	}
 }
+
+// The patient card's note follows the session: none while unlocked; how to
+// keep the values otherwise, by why they are not kept.
+func TestPatientNoteByPhase(t *testing.T) {
+	noStorage := newVaultSession(func(context.Context) (logbook.Store, error) {
+		return nil, errors.New("no IndexedDB in this browser")
+	}, logbook.MinimumKDF)
+	noStorage.Load(context.Background())
+	empty := testSession(logbook.NewMemStore())
+	empty.Load(context.Background())
+	store := logbook.NewMemStore()
+	locked := testSession(store)
+	if err := locked.Create(context.Background(), uiTestPass); err != nil {
+		t.Fatal(err)
+	}
+	unlocked := testSession(store)
+	if err := unlocked.Unlock(context.Background(), uiTestPass); err != nil {
+		t.Fatal(err)
+	}
+	locked.Lock()
+	for _, c := range []struct {
+		name string
+		s    *vaultSession
+		want string
+	}{
+		{"not opened yet", testSession(logbook.NewMemStore()), notePatientLocked},
+		{"no storage", noStorage, notePatientNoStore},
+		{"no logbook", empty, notePatientNoVault},
+		{"locked", locked, notePatientLocked},
+		{"unlocked", unlocked, ""},
+	} {
+		if got := patientNoteFor(c.s); got != c.want {
+			t.Errorf("%s: note %q, want %q", c.name, got, c.want)
+		}
+	}
+	if patientNoteFor(nil) != "" {
+		t.Error("a Brief with no session shows a note")
+	}
+}
