@@ -2,6 +2,7 @@ package ui
 
 import (
 	"context"
+	"strings"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -43,6 +44,13 @@ type briefState struct {
 	saveGen     int
 	pending     bool            // an edit not yet saved
 	open        map[string]bool // "How" disclosures the crew opened
+
+	// Narrow updates (see typed). briefCtx and resultCtx are the contexts
+	// of the mounted Brief and result panel; shownMsgs is the messages of
+	// every field as the Brief last rendered them.
+	briefCtx, resultCtx app.Context
+	mounted, resultUp   bool
+	shownMsgs           string
 }
 
 // saveDelay gathers a burst of keystrokes into one save of the draft.
@@ -53,7 +61,10 @@ func newBrief() *brief { return newBriefOn(theVault) }
 // newBriefOn returns a Brief whose patient block is kept by the vault
 // session (vault_draft.go), the rest of the draft in localStorage.
 func newBriefOn(session *vaultSession) *brief {
-	b := newBriefWith(draftStoreFor(session))
+	// The plan is read when the Brief first renders (or loads), not here:
+	// the frame makes a Brief each time it renders.
+	store := draftStoreFor(session)
+	b := &brief{store: store, s: newBriefState(store)}
 	b.session = session
 	b.s.patientNote = patientNoteFor(session)
 	return b
@@ -61,9 +72,13 @@ func newBriefOn(session *vaultSession) *brief {
 
 // newBriefWith returns a Brief keeping its whole draft in store (tests).
 func newBriefWith(store DraftStore) *brief {
-	s := &briefState{draft: NewBriefDraft(), settings: DefaultSettings(), store: store, open: map[string]bool{}}
+	s := newBriefState(store)
 	s.recompute()
 	return &brief{store: store, s: s}
+}
+
+func newBriefState(store DraftStore) *briefState {
+	return &briefState{draft: NewBriefDraft(), settings: DefaultSettings(), store: store, open: map[string]bool{}}
 }
 
 // Notes on the patient card while its values are not saved (our wording).
@@ -90,6 +105,7 @@ func patientNoteFor(session *vaultSession) string {
 }
 
 func (b *brief) OnMount(ctx app.Context) {
+	b.s.briefCtx, b.s.mounted = ctx, true
 	b.load(ctx)
 	b.follow(ctx)
 	// A reload or a closed tab within the save delay must not lose the
@@ -110,6 +126,7 @@ func (b *brief) OnDismount() {
 		return
 	}
 	b.s.flush(b.ctx)
+	b.s.mounted = false
 	if b.unsub != nil {
 		b.unsub()
 		b.unsub = nil
@@ -213,8 +230,44 @@ func (s *briefState) restructured(ctx app.Context) {
 	s.changed(ctx)
 }
 
+// typed is called after a keystroke in a numeric field, once the plan is
+// recomputed. go-app flags the component holding the field and every
+// component above it (the Brief, the frame) for an update; when no field's
+// message changed, only the field's card and the result panel need to
+// redraw, so the flags of the Brief and the frame are taken back and the
+// result panel is flagged alone. Otherwise the whole Brief redraws.
+func (s *briefState) typed(ctx app.Context) {
+	if !s.mounted || !s.resultUp || s.allMsgs() != s.shownMsgs {
+		return
+	}
+	brief := s.briefCtx
+	brief.PreventUpdate()
+	s.resultCtx.Dispatch(func(app.Context) { brief.PreventUpdate() })
+}
+
+// allMsgs is the messages of every field, in form order.
+func (s *briefState) allMsgs() string {
+	n := 0
+	for _, id := range s.model.order {
+		n += len(id) + len(s.model.msgs[id]) + 2
+	}
+	var b strings.Builder
+	b.Grow(n)
+	for _, id := range s.model.order {
+		b.WriteString(id)
+		b.WriteByte('=')
+		b.WriteString(s.model.msgs[id])
+		b.WriteByte(';')
+	}
+	return b.String()
+}
+
 func (b *brief) Render() app.UI {
 	s := b.s
+	if s.model == nil {
+		s.recompute()
+	}
+	s.shownMsgs = s.allMsgs()
 	return app.Section().Class("alv-screen alv-brief").Aria("labelledby", "brief-title").Body(
 		app.H1().ID("brief-title").Text("Brief"),
 		newCaution(""),

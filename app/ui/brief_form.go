@@ -62,6 +62,7 @@ func (s *briefState) numField(id string, spec fieldSpec, e Entry, required bool,
 		OnInput(func(ctx app.Context, ev app.Event) {
 			set(Entry{T: ctx.JSSrc().Get("value").String(), U: stored})
 			s.changed(ctx)
+			s.typed(ctx)
 		}, app.EventScope(id, stored))
 	return app.Div().Class("alv-field b-field").Body(
 		app.Label().For(id).Text(label),

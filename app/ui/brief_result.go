@@ -25,6 +25,11 @@ var statusText = map[string]string{
 	physio.StatusNoGo:    "NO-GO: the plan as written does not hold",
 }
 
+// OnMount and OnDismount keep the panel's context, so a keystroke can
+// flag the panel alone for an update (see briefState.typed).
+func (c *briefResult) OnMount(ctx app.Context) { c.s.resultCtx, c.s.resultUp = ctx, true }
+func (c *briefResult) OnDismount()             { c.s.resultUp = false }
+
 func (c *briefResult) Render() app.UI {
 	s := c.s
 	m := s.model
