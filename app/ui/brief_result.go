@@ -318,32 +318,61 @@ func roundingOf(s string) physio.Rounding {
 
 // fig renders one figure: label, large number, unit, and its "How".
 func (s *briefState) fig(id, label string, f physio.Figure) app.UI {
-	num, unit, note := s.shownFigure(f)
-	return app.Div().Class("b-fig").ID(id).Body(
-		app.Span().Class("b-fig-label").Text(label),
-		app.Div().Class("alv-result").Body(
-			app.Span().ID(id+"-v").Class("alv-num").Text(num),
-			app.If(unit != "", func() app.UI { return app.Span().ID(id + "-u").Class("alv-unit").Text(unit) }),
-		),
-		s.how(id, label, f, note),
-	)
+	return s.figure(id, label, f, false)
 }
 
 // inline renders a figure inside a table cell.
 func (s *briefState) inline(id, label string, f physio.Figure) app.UI {
+	return s.figure(id, label, f, true)
+}
+
+func (s *briefState) figure(id, label string, f physio.Figure, inline bool) app.UI {
 	num, unit, note := s.shownFigure(f)
-	return app.Div().ID(id).Body(
-		app.Span().ID(id+"-v").Class("b-cell-num").Text(num),
-		app.Text(" "+unit),
-		s.how(id, label, f, note),
+	c := &briefFig{ID: id, Label: label, Num: num, Unit: unit, Note: note, Inline: inline, s: s}
+	if s.open[id+"-how"] {
+		c.How = &f
+	}
+	return c
+}
+
+// briefFig is one figure of the result panel as its own component: when
+// the plan is recomputed, a figure whose text is the same (most of them,
+// for one keystroke) is passed over after comparing a few strings. The
+// figure itself is kept only while its "How" is open (How), since only
+// then is it drawn.
+type briefFig struct {
+	app.Compo
+	ID, Label, Num, Unit, Note string
+	Inline                     bool
+	How                        *physio.Figure
+	s                          *briefState
+}
+
+func (c *briefFig) Render() app.UI {
+	id, s := c.ID, c.s
+	if c.Inline {
+		return app.Div().ID(id).Body(
+			app.Span().ID(id+"-v").Class("b-cell-num").Text(c.Num),
+			app.Text(" "+c.Unit),
+			s.how(id, c.Label, c.How, c.Note),
+		)
+	}
+	unit := c.Unit
+	return app.Div().Class("b-fig").ID(id).Body(
+		app.Span().Class("b-fig-label").Text(c.Label),
+		app.Div().Class("alv-result").Body(
+			app.Span().ID(id+"-v").Class("alv-num").Text(c.Num),
+			app.If(unit != "", func() app.UI { return app.Span().ID(id + "-u").Class("alv-unit").Text(unit) }),
+		),
+		s.how(id, c.Label, c.How, c.Note),
 	)
 }
 
 // how is the "How" disclosure of a figure: the formula, the inputs it
 // used, the source and the rounding. Its body is built only while open.
-func (s *briefState) how(id, label string, f physio.Figure, note string) app.UI {
+func (s *briefState) how(id, label string, f *physio.Figure, note string) app.UI {
 	hid := id + "-how"
-	open := s.open[hid]
+	open := s.open[hid] && f != nil
 	body := []app.UI{app.Summary().Body(app.Text("How"), app.Span().Class("b-sr").Text(": "+label))}
 	if open {
 		inputs := make([]app.UI, 0, len(f.Inputs))
