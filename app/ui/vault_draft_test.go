@@ -386,7 +386,10 @@ func TestSettingsScreenAutoLockField(t *testing.T) {
 		t.Error("an invalid idle time was saved")
 	}
 	html := app.HTMLString(sc.Render())
-	if !strings.Contains(html, `<p id="set-autolock-msg" class="alv-error" role="alert">Auto-lock must be between 1 and 60 min`) ||
+	// go-app writes attributes in no fixed order: match the message
+	// element by its parts, not as one string.
+	msgElem := regexp.MustCompile(`<p [^>]*id="set-autolock-msg"[^>]*>Auto-lock must be between 1 and 60 min`)
+	if !msgElem.MatchString(html) || !strings.Contains(msgElem.FindString(html), `role="alert"`) ||
 		!strings.Contains(html, `aria-describedby="set-autolock-unit set-autolock-msg"`) {
 		t.Errorf("the field does not show its message")
 	}
