@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"sync"
 	"syscall/js"
 
 	"alvea/app/logbook"
@@ -24,8 +25,19 @@ const (
 
 // Store is the IndexedDB implementation of logbook.Store and
 // logbook.StorageReporter.
+//
+// The connection is closed when the page is hidden (pagehide: a full page
+// load elsewhere, or the tab closing) and when another page asks for a
+// version change; the next operation opens it again. A page kept in the
+// browser's back/forward cache with its connection (or its first open,
+// which creates the database) still pending would otherwise hold the
+// database, and the next page's open would wait behind it.
 type Store struct {
-	db js.Value
+	name string
+
+	mu     sync.Mutex
+	db     js.Value
+	closed bool
 }
 
 var (
@@ -33,19 +45,136 @@ var (
 	_ logbook.StorageReporter = (*Store)(nil)
 )
 
+// live is every connection of this page, open or being opened, closed
+// together at pagehide.
+var live = struct {
+	sync.Mutex
+	stores  map[*Store]struct{}
+	opening map[int]js.Value // connections handed to upgradeneeded, not yet successful
+	next    int
+	hidden  bool // between pagehide and pageshow
+	hook    sync.Once
+}{stores: map[*Store]struct{}{}, opening: map[int]js.Value{}}
+
+// hookPageHide installs, once, the pagehide listener that closes every
+// connection. It is never released: it lives as long as the page.
+func hookPageHide() {
+	live.hook.Do(func() {
+		win := js.Global()
+		if !win.Get("addEventListener").Truthy() {
+			return // not a page (a worker, or Node in tests)
+		}
+		win.Call("addEventListener", "pagehide", js.FuncOf(func(this js.Value, args []js.Value) any {
+			live.Lock()
+			live.hidden = true
+			live.Unlock()
+			closeAll()
+			return nil
+		}))
+		win.Call("addEventListener", "pageshow", js.FuncOf(func(this js.Value, args []js.Value) any {
+			live.Lock()
+			live.hidden = false
+			live.Unlock()
+			return nil
+		}))
+	})
+}
+
+// closeAll closes every connection of the page. It never blocks.
+func closeAll() {
+	live.Lock()
+	stores := make([]*Store, 0, len(live.stores))
+	for s := range live.stores {
+		stores = append(stores, s)
+	}
+	opening := make([]js.Value, 0, len(live.opening))
+	for _, db := range live.opening {
+		opening = append(opening, db)
+	}
+	live.Unlock()
+	for _, s := range stores {
+		s.markClosed()
+	}
+	for _, db := range opening {
+		// Closing during the upgrade lets its transaction finish; the
+		// open then fails (AbortError) and holds nothing.
+		db.Call("close")
+	}
+}
+
 // Open opens (creating on first use) the vault database.
 func Open(ctx context.Context) (*Store, error) { return OpenNamed(ctx, DBName) }
+
+// OpenNotify is Open, calling onBlocked (from a browser callback: it must
+// not block) when the open waits because another page holds the database
+// in an older version; the open keeps waiting.
+func OpenNotify(ctx context.Context, onBlocked func()) (*Store, error) {
+	return openDB(ctx, DBName, onBlocked)
+}
 
 // OpenNamed opens a database of another name (browser tests use a fresh
 // one each).
 func OpenNamed(ctx context.Context, name string) (*Store, error) {
+	return openDB(ctx, name, nil)
+}
+
+func openDB(ctx context.Context, name string, onBlocked func()) (*Store, error) {
+	s := &Store{name: name}
+	db, err := connect(ctx, name, onBlocked)
+	if err != nil {
+		return nil, err
+	}
+	s.adopt(db)
+	live.Lock()
+	live.stores[s] = struct{}{}
+	hidden := live.hidden
+	live.Unlock()
+	if hidden {
+		s.markClosed() // opened as the page was hidden: reopened when used
+	}
+	return s, nil
+}
+
+// connect opens one connection. 'blocked' is not a failure: the open waits
+// until the other connections close (ours close on versionchange), and
+// onBlocked is told.
+func connect(ctx context.Context, name string, onBlocked func()) (js.Value, error) {
 	factory := js.Global().Get("indexedDB")
 	if factory.IsUndefined() || factory.IsNull() {
-		return nil, ErrUnavailable
+		return js.Undefined(), ErrUnavailable
 	}
+	hookPageHide()
+	// While an open is in flight, an unload listener keeps the page out
+	// of the back/forward cache: a page frozen there with its open (the
+	// one that creates the database) still pending holds the database,
+	// and every later open, in any page, waits behind it.
+	noCache := js.FuncOf(func(this js.Value, args []js.Value) any { return nil })
+	win := js.Global()
+	if win.Get("addEventListener").Truthy() {
+		win.Call("addEventListener", "unload", noCache)
+	}
+	defer func() {
+		if win.Get("removeEventListener").Truthy() {
+			win.Call("removeEventListener", "unload", noCache)
+		}
+		noCache.Release()
+	}()
 	req := factory.Call("open", name, dbVersion)
+	live.Lock()
+	id := live.next
+	live.next++
+	live.Unlock()
 	upgrade := js.FuncOf(func(this js.Value, args []js.Value) any {
 		db := req.Get("result")
+		live.Lock()
+		live.opening[id] = db
+		hidden := live.hidden
+		live.Unlock()
+		if hidden {
+			// The page is going away: create nothing it would hold.
+			req.Get("transaction").Call("abort")
+			return nil
+		}
 		names := db.Get("objectStoreNames")
 		for _, s := range []string{storeMeta, storeIndex, storeBody} {
 			if !names.Call("contains", s).Bool() {
@@ -54,19 +183,102 @@ func OpenNamed(ctx context.Context, name string) (*Store, error) {
 		}
 		return nil
 	})
+	blocked := js.FuncOf(func(this js.Value, args []js.Value) any {
+		if onBlocked != nil {
+			onBlocked()
+		}
+		return nil
+	})
 	req.Set("onupgradeneeded", upgrade)
+	req.Set("onblocked", blocked)
 	defer func() {
+		live.Lock()
+		delete(live.opening, id)
+		live.Unlock()
 		req.Set("onupgradeneeded", js.Null())
+		req.Set("onblocked", js.Null())
 		upgrade.Release()
+		blocked.Release()
 	}()
-	if err := await(ctx, req, "success", "error", "blocked"); err != nil {
-		return nil, fmt.Errorf("idb: open %s: %w", name, err)
+	if err := await(ctx, req, "success", "error"); err != nil {
+		if ctx.Err() != nil {
+			// The request may still succeed: close what it opens.
+			var late js.Func
+			late = js.FuncOf(func(this js.Value, args []js.Value) any {
+				req.Get("result").Call("close")
+				late.Release()
+				return nil
+			})
+			req.Call("addEventListener", "success", late)
+		}
+		return js.Undefined(), fmt.Errorf("idb: open %s: %w", name, err)
 	}
-	return &Store{db: req.Get("result")}, nil
+	return req.Get("result"), nil
 }
 
-// Close closes the database connection.
-func (s *Store) Close() { s.db.Call("close") }
+// adopt takes a new connection, closed again when another page asks for a
+// version change.
+func (s *Store) adopt(db js.Value) {
+	var onChange js.Func
+	onChange = js.FuncOf(func(this js.Value, args []js.Value) any {
+		s.mu.Lock()
+		same := s.db.Equal(db)
+		s.mu.Unlock()
+		if same {
+			s.markClosed()
+		} else {
+			db.Call("close")
+		}
+		return nil
+	})
+	db.Set("onversionchange", onChange)
+	db.Set("onclose", onChange) // the browser closed it (storage cleared)
+	s.mu.Lock()
+	s.db, s.closed = db, false
+	s.mu.Unlock()
+}
+
+// markClosed closes the connection now; the next operation opens another.
+func (s *Store) markClosed() {
+	s.mu.Lock()
+	db, was := s.db, s.closed
+	s.closed = true
+	s.mu.Unlock()
+	if !was && db.Truthy() {
+		db.Call("close")
+	}
+}
+
+// conn returns an open connection, opening one again after a close. It
+// blocks: call it from a goroutine.
+func (s *Store) conn(ctx context.Context) (js.Value, error) {
+	s.mu.Lock()
+	db, closed := s.db, s.closed
+	s.mu.Unlock()
+	if !closed {
+		return db, nil
+	}
+	db, err := connect(ctx, s.name, nil)
+	if err != nil {
+		return js.Undefined(), err
+	}
+	s.adopt(db)
+	live.Lock()
+	hidden := live.hidden
+	live.Unlock()
+	if hidden {
+		s.markClosed()
+	}
+	return db, nil
+}
+
+// Close closes the database connection for good.
+func (s *Store) Close() {
+	live.Lock()
+	delete(live.stores, s)
+	live.Unlock()
+	s.markClosed()
+}
 
 // await waits, in the calling goroutine, for target's success event or
 // one of its failure events. The callbacks only do a non-blocking send on
@@ -137,20 +349,23 @@ func domError(target js.Value, event string) error {
 
 var errConstraint = errors.New("idb: key already exists")
 
-func (s *Store) tx(mode string, stores ...string) (js.Value, error) {
+func (s *Store) tx(ctx context.Context, mode string, stores ...string) (js.Value, error) {
+	db, err := s.conn(ctx)
+	if err != nil {
+		return js.Undefined(), err
+	}
 	names := make([]any, len(stores))
 	for i, n := range stores {
 		names[i] = n
 	}
 	var tx js.Value
-	var err error
 	func() {
 		defer func() {
 			if r := recover(); r != nil {
 				err = fmt.Errorf("idb: transaction: %v", r)
 			}
 		}()
-		tx = s.db.Call("transaction", js.ValueOf(names), mode)
+		tx = db.Call("transaction", js.ValueOf(names), mode)
 	}()
 	return tx, err
 }
@@ -172,7 +387,7 @@ func toGo(v js.Value) []byte {
 
 // get runs one get request in a read-only transaction.
 func (s *Store) get(ctx context.Context, store string, key any) (js.Value, error) {
-	tx, err := s.tx("readonly", store)
+	tx, err := s.tx(ctx, "readonly", store)
 	if err != nil {
 		return js.Undefined(), err
 	}
@@ -184,7 +399,7 @@ func (s *Store) get(ctx context.Context, store string, key any) (js.Value, error
 }
 
 func (s *Store) Meta(ctx context.Context) ([]byte, []byte, error) {
-	tx, err := s.tx("readonly", storeMeta)
+	tx, err := s.tx(ctx, "readonly", storeMeta)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -201,7 +416,7 @@ func (s *Store) Meta(ctx context.Context) ([]byte, []byte, error) {
 }
 
 func (s *Store) PutHeader(ctx context.Context, header []byte) error {
-	tx, err := s.tx("readwrite", storeMeta)
+	tx, err := s.tx(ctx, "readwrite", storeMeta)
 	if err != nil {
 		return err
 	}
@@ -213,7 +428,7 @@ func (s *Store) PutHeader(ctx context.Context, header []byte) error {
 // the head with put, in one transaction, and returns after its complete
 // event.
 func (s *Store) Append(ctx context.Context, rec logbook.Sealed, head []byte) error {
-	tx, err := s.tx("readwrite", storeIndex, storeBody, storeMeta)
+	tx, err := s.tx(ctx, "readwrite", storeIndex, storeBody, storeMeta)
 	if err != nil {
 		return err
 	}
@@ -231,7 +446,7 @@ func (s *Store) Append(ctx context.Context, rec logbook.Sealed, head []byte) err
 // Index reads all sealed indexes with getAllKeys and getAll in one
 // read-only transaction (two requests rather than a cursor step per record).
 func (s *Store) Index(ctx context.Context) ([]logbook.IndexItem, error) {
-	tx, err := s.tx("readonly", storeIndex)
+	tx, err := s.tx(ctx, "readonly", storeIndex)
 	if err != nil {
 		return nil, err
 	}
@@ -268,7 +483,7 @@ func (s *Store) Body(ctx context.Context, seq uint64) ([]byte, error) {
 }
 
 func (s *Store) Clear(ctx context.Context) error {
-	tx, err := s.tx("readwrite", storeIndex, storeBody, storeMeta)
+	tx, err := s.tx(ctx, "readwrite", storeIndex, storeBody, storeMeta)
 	if err != nil {
 		return err
 	}
@@ -284,7 +499,7 @@ func (s *Store) PutSide(ctx context.Context, name string, blob []byte) error {
 	if err := logbook.CheckSideName(name); err != nil {
 		return err
 	}
-	tx, err := s.tx("readwrite", storeMeta)
+	tx, err := s.tx(ctx, "readwrite", storeMeta)
 	if err != nil {
 		return err
 	}
@@ -312,7 +527,7 @@ func (s *Store) DeleteSide(ctx context.Context, name string) error {
 	if err := logbook.CheckSideName(name); err != nil {
 		return err
 	}
-	tx, err := s.tx("readwrite", storeMeta)
+	tx, err := s.tx(ctx, "readwrite", storeMeta)
 	if err != nil {
 		return err
 	}
