@@ -51,6 +51,7 @@ type briefState struct {
 	briefCtx, resultCtx app.Context
 	mounted, resultUp   bool
 	shownMsgs           string
+	setters             map[string]func(Entry) // numeric field id → where it writes
 }
 
 // saveDelay gathers a burst of keystrokes into one save of the draft.
@@ -231,17 +232,17 @@ func (s *briefState) restructured(ctx app.Context) {
 }
 
 // typed is called after a keystroke in a numeric field, once the plan is
-// recomputed. go-app flags the component holding the field and every
-// component above it (the Brief, the frame) for an update; when no field's
-// message changed, only the field's card and the result panel need to
-// redraw, so the flags of the Brief and the frame are taken back and the
-// result panel is flagged alone. Otherwise the whole Brief redraws.
+// recomputed. go-app flags the field's component and every component
+// above it (its card, the Brief, the frame) for an update. When no field's
+// message changed, nothing of the form needs to redraw (the text is on
+// screen already), so those flags are taken back and the result panel is
+// flagged alone. Otherwise the whole Brief redraws.
 func (s *briefState) typed(ctx app.Context) {
 	if !s.mounted || !s.resultUp || s.allMsgs() != s.shownMsgs {
 		return
 	}
+	ctx.PreventUpdate()
 	brief := s.briefCtx
-	brief.PreventUpdate()
 	s.resultCtx.Dispatch(func(app.Context) { brief.PreventUpdate() })
 }
 

@@ -34,7 +34,9 @@ func (s *briefState) msgSig(prefix string) string {
 // numField renders a labelled numeric input: the value as typed (or
 // converted to the display unit), the unit always visible beside it, the
 // message (allowed range and unit) under it, all tied to the input by
-// aria-describedby.
+// aria-describedby. Each is its own component (briefNum); set is kept by
+// field id, so a field that moves to another place in its card writes
+// where its id says.
 func (s *briefState) numField(id string, spec fieldSpec, e Entry, required bool, set func(Entry)) app.UI {
 	disp := displayUnit(spec.Kind, s.settings, spec)
 	stored := disp
@@ -43,7 +45,56 @@ func (s *briefState) numField(id string, spec fieldSpec, e Entry, required bool,
 		stored = "" // one unit only: nothing to remember
 	}
 	text, note := shownText(spec, e, disp)
-	msg := s.model.msgs[id]
+	label := spec.Label
+	if !required {
+		label += " (optional)"
+	}
+	if s.setters == nil {
+		s.setters = map[string]func(Entry){}
+	}
+	s.setters[id] = set
+	return &briefNum{ID: id, Label: label, Disp: disp, Stored: stored, Text: text, Note: note, Msg: s.model.msgs[id], s: s}
+}
+
+// briefNum is one numeric field of the Brief. A keystroke that changes no
+// field's message redraws nothing of the form (see briefState.typed): the
+// text is already on screen, and Text is kept up to date here.
+type briefNum struct {
+	app.Compo
+	ID, Label, Disp, Stored, Text, Note, Msg string
+	s                                        *briefState
+}
+
+func (c *briefNum) onInput(ctx app.Context, ev app.Event) {
+	s := c.s
+	t := ctx.JSSrc().Get("value").String()
+	if set := s.setters[c.ID]; set != nil {
+		set(Entry{T: t, U: c.Stored})
+	}
+	s.changed(ctx)
+	// As typed, the text is shown as it is, with no conversion note.
+	narrow := c.Note == ""
+	c.Text, c.Note = t, ""
+	if narrow {
+		s.typed(ctx)
+	}
+}
+
+// OnUpdate writes the text onto the input when the form sets it (a
+// loaded draft, other units): a keystroke that redrew nothing left
+// go-app's copy of the value behind the screen's, so go-app's own
+// comparison could skip it.
+func (c *briefNum) OnUpdate(ctx app.Context) {
+	if !app.IsClient {
+		return
+	}
+	if el := app.Window().GetElementByID(c.ID); el.Truthy() && el.Get("value").String() != c.Text {
+		el.Set("value", c.Text)
+	}
+}
+
+func (c *briefNum) Render() app.UI {
+	id, msg, note := c.ID, c.Msg, c.Note
 	unitID, msgID, noteID := id+"-unit", id+"-msg", id+"-note"
 	desc := unitID
 	if msg != "" {
@@ -52,23 +103,15 @@ func (s *briefState) numField(id string, spec fieldSpec, e Entry, required bool,
 	if note != "" {
 		desc += " " + noteID
 	}
-	label := spec.Label
-	if !required {
-		label += " (optional)"
-	}
 	input := app.Input().ID(id).Class("alv-input").Type("text").
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("spellcheck", "false").
-		Value(text).Aria("invalid", msg != "").Aria("describedby", desc).
-		OnInput(func(ctx app.Context, ev app.Event) {
-			set(Entry{T: ctx.JSSrc().Get("value").String(), U: stored})
-			s.changed(ctx)
-			s.typed(ctx)
-		}, app.EventScope(id, stored))
+		Value(c.Text).Aria("invalid", msg != "").Aria("describedby", desc).
+		OnInput(c.onInput, app.EventScope(id, c.Stored))
 	return app.Div().Class("alv-field b-field").Body(
-		app.Label().For(id).Text(label),
+		app.Label().For(id).Text(c.Label),
 		app.Div().Class("alv-input-row").Body(
 			input,
-			app.Span().ID(unitID).Class("alv-unit").Text(disp),
+			app.Span().ID(unitID).Class("alv-unit").Text(c.Disp),
 		),
 		app.If(note != "", func() app.UI { return app.P().ID(noteID).Class("alv-note b-note").Text(note) }),
 		app.If(msg != "", func() app.UI { return app.P().ID(msgID).Class("alv-error").Text(msg) }),
