@@ -244,6 +244,12 @@ func (l *logbookScreen) Render() app.UI {
 func (l *logbookScreen) renderPhase() app.UI {
 	switch l.phase {
 	case phaseUnknown:
+		if l.session.OpenWaiting() {
+			return app.Div().ID("lb-waiting").Class("alv-card").Attr("role", "alert").Body(
+				app.H2().Class("alv-card-title").Text("The browser is holding the logbook"),
+				app.P().Text("Alvea may be open in another tab or window of this browser: close other Alvea tabs. The logbook opens here by itself once they are closed; nothing is lost."),
+			)
+		}
 		return app.P().Class("alv-lead").Text("Opening the logbook on this device…")
 	case phaseUnavailable:
 		return app.Div().Class("alv-card").Body(

@@ -47,6 +47,14 @@ type vaultSession struct {
 	rev     int              // bumped at every change of phase or content
 	now     func() time.Time // the vaults' clock (nil: time.Now); tests set it
 
+	// loading is closed when the open in flight ends (nil: none): two
+	// screens loading at once share one open. openWait is set when that
+	// open has taken longer than patience (the browser holds the database
+	// for another tab), so the screens can say so rather than spin.
+	loading  chan struct{}
+	openWait bool
+	patience time.Duration
+
 	// The Brief's patient block, held in memory for the life of the page
 	// and written into the vault's draft slot while it is unlocked
 	// (vault_draft.go). patientGen counts changes; savedGen is the
@@ -63,7 +71,7 @@ type vaultSession struct {
 var theVault = newVaultSession(openBrowserStore, logbook.DefaultKDF)
 
 func newVaultSession(open func(context.Context) (logbook.Store, error), kdf logbook.KDFParams) *vaultSession {
-	return &vaultSession{openStore: open, kdf: kdf, idle: logbook.DefaultIdleLock, subs: map[int]func(){}}
+	return &vaultSession{openStore: open, kdf: kdf, idle: logbook.DefaultIdleLock, subs: map[int]func(){}, patience: openPatience}
 }
 
 // Subscribe registers fn, called (from any goroutine) after every change
@@ -112,15 +120,65 @@ func (s *vaultSession) Rev() int {
 	return s.rev
 }
 
-// Load opens the store (once) and finds out whether it holds a vault. It is
-// cheap after the first call.
-func (s *vaultSession) Load(ctx context.Context) error {
+// openPatience is how long an open may take before the screens say the
+// browser is holding the logbook (an open normally takes well under a
+// second: GOAPP-NOTES measured 50–330 ms).
+const openPatience = 5 * time.Second
+
+// OpenWaiting reports whether the store's open has been waiting longer
+// than it should (another tab holds the database).
+func (s *vaultSession) OpenWaiting() bool {
 	s.mu.Lock()
-	if s.phase != phaseUnknown && s.phase != phaseUnavailable {
+	defer s.mu.Unlock()
+	return s.openWait
+}
+
+// Load opens the store (once) and finds out whether it holds a vault. It is
+// cheap after the first call; calls made while an open is in flight wait
+// for that open.
+func (s *vaultSession) Load(ctx context.Context) error {
+	for {
+		s.mu.Lock()
+		if s.phase != phaseUnknown && s.phase != phaseUnavailable {
+			s.mu.Unlock()
+			return nil
+		}
+		wait := s.loading
+		if wait == nil {
+			s.loading = make(chan struct{})
+			s.mu.Unlock()
+			break
+		}
 		s.mu.Unlock()
-		return nil
+		select {
+		case <-wait:
+		case <-ctx.Done():
+			return ctx.Err()
+		}
+		s.mu.Lock()
+		phase, err := s.phase, s.err
+		s.mu.Unlock()
+		if phase == phaseUnavailable {
+			return err
+		}
 	}
-	s.mu.Unlock()
+	slow := time.AfterFunc(s.patience, func() {
+		s.mu.Lock()
+		s.openWait = true
+		s.mu.Unlock()
+		s.changed()
+	})
+	defer func() {
+		slow.Stop()
+		s.mu.Lock()
+		close(s.loading)
+		s.loading, s.openWait = nil, false
+		s.mu.Unlock()
+	}()
+	return s.load(ctx)
+}
+
+func (s *vaultSession) load(ctx context.Context) error {
 	store, err := s.openStore(ctx)
 	if err != nil {
 		s.mu.Lock()
