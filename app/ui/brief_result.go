@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -119,7 +120,7 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 	// Legs.
 	legs := make([]app.UI, 0, len(r.Legs))
 	for i, l := range r.Legs {
-		legs = append(legs, s.legResult(i, l))
+		legs = append(legs, &briefLegPart{I: i, Key: s.legKey(i, l), s: s})
 	}
 	out = append(out, app.H3().Text("Legs"), app.Div().Class("b-legs-result").Body(legs...))
 
@@ -193,19 +194,94 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 	return out
 }
 
+// briefLegPart is one leg of the result panel as its own component. Key
+// is everything the leg shows, as text; a leg whose Key is unchanged (the
+// other legs, when one leg's figures change) is passed over. Render reads
+// the leg from the current plan.
+type briefLegPart struct {
+	app.Compo
+	I   int
+	Key string
+	s   *briefState
+}
+
+func (c *briefLegPart) Render() app.UI {
+	r := c.s.model.result
+	if r == nil || c.I >= len(r.Legs) {
+		return app.Div().Class("b-leg-result")
+	}
+	return c.s.legResult(c.I, r.Legs[c.I])
+}
+
+// legFig is one figure of a leg's result: what it is (the end of its id),
+// its label, and its key in the leg's Explain.
+type legFig struct{ what, label, key string }
+
+var legFigs = []legFig{
+	{"alt", "Altitude", "altitude_ft"},
+	{"pb", "Barometric pressure", "pressure_mmhg"},
+	{"fio2", "FiO2 needed", "fio2_needed"},
+	{"fio2low", "FiO2 of the set-up (low end)", "fio2_delivered_low"},
+	{"pao2a", "PAO2 at the set-up", "pao2_mmhg"},
+	{"pao2", "PaO2 expected", "pao2_expected_mmhg"},
+	{"spo2", "SpO2 expected", "spo2_expected_percent"},
+	{"lpm", "Oxygen flow", "oxygen_lpm"},
+	{"litres", "Oxygen for the leg", "oxygen_l"},
+}
+
+// legTitle is the heading of a leg's result.
+func legTitle(i int, l physio.PlanLegResult) string {
+	return "Leg " + strconv.Itoa(i+1) + " · " + whereText(l.Where) + " · " + l.Minutes.String() + " min · " + deviceName(l.Device)
+}
+
+// legKey writes out everything the leg's result shows: its title, each
+// figure as shown (number, unit, note, "How" open), the verdict and the
+// options.
+func (s *briefState) legKey(i int, l physio.PlanLegResult) string {
+	var b strings.Builder
+	b.WriteString(legTitle(i, l))
+	pre := legResultID(i, "")
+	fig := func(what, key string) {
+		f, ok := l.Explain[key]
+		if !ok {
+			b.WriteString("|-")
+			return
+		}
+		num, unit, note := s.shownFigure(f)
+		b.WriteByte('|')
+		b.WriteString(num)
+		b.WriteByte(' ')
+		b.WriteString(unit)
+		b.WriteByte(' ')
+		b.WriteString(note)
+		if s.open[pre+what+"-how"] {
+			b.WriteString(" open ")
+			b.WriteString(strconv.Itoa(s.rev)) // an open "How" shows the inputs: redraw
+		}
+	}
+	for _, lf := range legFigs {
+		fig(lf.what, lf.key)
+	}
+	fig("cao2", "cao2_expected_ml_dl")
+	b.WriteString("|")
+	b.WriteString(strconv.FormatBool(l.FiO2Possible))
+	b.WriteString(strconv.FormatBool(l.Delivers))
+	b.WriteString(l.FiO2Needed.String())
+	for _, o := range l.Options {
+		b.WriteByte('|')
+		b.WriteString(optionText(o))
+	}
+	return b.String()
+}
+
+func legResultID(i int, what string) string { return "b-r-leg" + strconv.Itoa(i) + "-" + what }
+
 func (s *briefState) legResult(i int, l physio.PlanLegResult) app.UI {
-	id := func(what string) string { return fmt.Sprintf("b-r-leg%d-%s", i, what) }
-	title := fmt.Sprintf("Leg %d · %s · %s min · %s", i+1, whereText(l.Where), l.Minutes, deviceName(l.Device))
-	figs := []app.UI{
-		s.fig(id("alt"), "Altitude", l.Explain["altitude_ft"]),
-		s.fig(id("pb"), "Barometric pressure", l.Explain["pressure_mmhg"]),
-		s.fig(id("fio2"), "FiO2 needed", l.Explain["fio2_needed"]),
-		s.fig(id("fio2low"), "FiO2 of the set-up (low end)", l.Explain["fio2_delivered_low"]),
-		s.fig(id("pao2a"), "PAO2 at the set-up", l.Explain["pao2_mmhg"]),
-		s.fig(id("pao2"), "PaO2 expected", l.Explain["pao2_expected_mmhg"]),
-		s.fig(id("spo2"), "SpO2 expected", l.Explain["spo2_expected_percent"]),
-		s.fig(id("lpm"), "Oxygen flow", l.Explain["oxygen_lpm"]),
-		s.fig(id("litres"), "Oxygen for the leg", l.Explain["oxygen_l"]),
+	id := func(what string) string { return legResultID(i, what) }
+	title := legTitle(i, l)
+	figs := make([]app.UI, 0, len(legFigs)+1)
+	for _, lf := range legFigs {
+		figs = append(figs, s.fig(id(lf.what), lf.label, l.Explain[lf.key]))
 	}
 	if f, ok := l.Explain["cao2_expected_ml_dl"]; ok {
 		figs = append(figs, s.fig(id("cao2"), "Oxygen content expected", f))
@@ -229,7 +305,7 @@ func (s *briefState) legResult(i int, l physio.PlanLegResult) app.UI {
 			opts = append(opts, app.Li().Text(optionText(o)))
 		}
 		body = append(body,
-			app.P().Class("b-options-title").Text(fmt.Sprintf("Options that would deliver FiO2 %s — options, not orders; local protocol and medical direction decide:", l.FiO2Needed)),
+			app.P().Class("b-options-title").Text("Options that would deliver FiO2 "+l.FiO2Needed.String()+" — options, not orders; local protocol and medical direction decide:"),
 			app.Ul().ID(id("options")).Class("b-options").Body(opts...),
 		)
 	}
