@@ -125,27 +125,7 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 	out = append(out, app.H3().Text("Legs"), app.Div().Class("b-legs-result").Body(legs...))
 
 	// Ground state.
-	g := r.Ground
-	gfigs := []app.UI{
-		s.fig("b-r-g-pao2a", "PAO2 (alveolar)", g.Explain["pao2_alveolar_mmhg"]),
-	}
-	if f, ok := g.Explain["pao2_arterial_mmhg"]; ok {
-		gfigs = append(gfigs, s.fig("b-r-g-pao2", "PaO2 from SpO2", f))
-	}
-	if f, ok := g.Explain["spo2_percent"]; ok {
-		gfigs = append(gfigs, s.fig("b-r-g-spo2", "SpO2 from PaO2", f))
-	}
-	gfigs = append(gfigs,
-		s.fig("b-r-g-aa", "a/A ratio", g.Explain["aa_ratio"]),
-		s.fig("b-r-g-grad", "A-a gradient", g.Explain["aa_gradient_mmhg"]),
-	)
-	if f, ok := g.Explain["expected_aa_gradient_mmhg"]; ok {
-		gfigs = append(gfigs, s.fig("b-r-g-gradexp", "Upper normal A-a gradient for age", f))
-	}
-	if f, ok := g.Explain["cao2_ml_dl"]; ok {
-		gfigs = append(gfigs, s.fig("b-r-g-cao2", "Oxygen content", f))
-	}
-	out = append(out, app.H3().Text("Patient on the ground ("+g.MeasuredAt+")"), app.Div().Class("b-figs").Body(gfigs...))
+	out = append(out, &briefPart{Name: partGround, Key: s.partKey(partGround, r), s: s})
 
 	// Cylinders.
 	if len(r.Cylinders) > 0 {
@@ -167,31 +147,130 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 		))
 	}
 
-	// Trapped gas.
-	tg := r.TrappedGas
-	out = append(out, app.H3().Text("Trapped gas, origin to highest altitude"),
-		app.Div().Class("b-figs").Body(
-			s.fig("b-r-tg-ratio", "Expansion ratio", tg.Explain["ratio"]),
-			s.fig("b-r-tg-cuff", fmt.Sprintf("A %s mL air pocket becomes", tg.CuffMl), tg.Explain["cuff_at_altitude_ml"]),
-			s.fig("b-r-tg-ptx", fmt.Sprintf("A %s mL pneumothorax becomes", tg.PneumothoraxMl), tg.Explain["pneumothorax_at_altitude_ml"]),
-			s.fig("b-r-tg-rigid", "Sealed rigid space: overpressure up to", tg.Explain["rigid_overpressure_cmh2o"]),
-		),
-		app.P().Class("alv-note").Text(tg.Caution),
+	// Trapped gas, and the assumptions.
+	out = append(out,
+		&briefPart{Name: partGas, Key: s.partKey(partGas, r), s: s},
+		&briefPart{Name: partAssume, Key: s.partKey(partAssume, r), s: s},
 	)
-
-	// Assumptions.
-	if len(r.Assumptions) > 0 {
-		items := make([]app.UI, 0, len(r.Assumptions))
-		for _, a := range r.Assumptions {
-			items = append(items, app.Li().Text(a.Path+" = "+a.Value+": "+a.Reason))
-		}
-		out = append(out, app.Details().Class("alv-how b-assume").Body(
-			app.Summary().Text(fmt.Sprintf("Defaults and method assumptions (%d)", len(items))),
-			app.Ul().Body(items...),
-		))
-	}
 	out = append(out, app.P().Class("alv-note b-plan-caution").Text(r.Caution))
 	return out
+}
+
+// Parts of the result panel that one keystroke seldom changes.
+const (
+	partGround = "ground" // the patient on the ground
+	partGas    = "gas"    // trapped gas
+	partAssume = "assume" // defaults and method assumptions
+)
+
+// briefPart is such a part as its own component: Key is everything it
+// shows, as text, so an unchanged part is passed over. Render reads the
+// part from the current plan.
+type briefPart struct {
+	app.Compo
+	Name, Key string
+	s         *briefState
+}
+
+func (c *briefPart) Render() app.UI {
+	s, r := c.s, c.s.model.result
+	if r == nil {
+		return app.Div()
+	}
+	body := []app.UI{}
+	switch c.Name {
+	case partGround:
+		figs := make([]app.UI, 0, 7)
+		for _, f := range s.partFigs(partGround, r) {
+			figs = append(figs, s.fig(f.id, f.label, f.f))
+		}
+		body = append(body, app.H3().Text("Patient on the ground ("+r.Ground.MeasuredAt+")"), app.Div().Class("b-figs").Body(figs...))
+	case partGas:
+		figs := make([]app.UI, 0, 4)
+		for _, f := range s.partFigs(partGas, r) {
+			figs = append(figs, s.fig(f.id, f.label, f.f))
+		}
+		body = append(body, app.H3().Text("Trapped gas, origin to highest altitude"),
+			app.Div().Class("b-figs").Body(figs...),
+			app.P().Class("alv-note").Text(r.TrappedGas.Caution),
+		)
+	case partAssume:
+		if len(r.Assumptions) > 0 {
+			items := make([]app.UI, 0, len(r.Assumptions))
+			for _, a := range r.Assumptions {
+				items = append(items, app.Li().Text(a.Path+" = "+a.Value+": "+a.Reason))
+			}
+			body = append(body, app.Details().Class("alv-how b-assume").Body(
+				app.Summary().Text("Defaults and method assumptions ("+strconv.Itoa(len(items))+")"),
+				app.Ul().Body(items...),
+			))
+		}
+	}
+	return app.Div().Class("b-part").Body(body...)
+}
+
+// partFig is one figure of a part: its id, label and figure.
+type partFig struct {
+	id, label string
+	f         physio.Figure
+}
+
+func (s *briefState) partFigs(name string, r *physio.PlanResult) []partFig {
+	switch name {
+	case partGround:
+		g := r.Ground
+		out := []partFig{{"b-r-g-pao2a", "PAO2 (alveolar)", g.Explain["pao2_alveolar_mmhg"]}}
+		if f, ok := g.Explain["pao2_arterial_mmhg"]; ok {
+			out = append(out, partFig{"b-r-g-pao2", "PaO2 from SpO2", f})
+		}
+		if f, ok := g.Explain["spo2_percent"]; ok {
+			out = append(out, partFig{"b-r-g-spo2", "SpO2 from PaO2", f})
+		}
+		out = append(out,
+			partFig{"b-r-g-aa", "a/A ratio", g.Explain["aa_ratio"]},
+			partFig{"b-r-g-grad", "A-a gradient", g.Explain["aa_gradient_mmhg"]},
+		)
+		if f, ok := g.Explain["expected_aa_gradient_mmhg"]; ok {
+			out = append(out, partFig{"b-r-g-gradexp", "Upper normal A-a gradient for age", f})
+		}
+		if f, ok := g.Explain["cao2_ml_dl"]; ok {
+			out = append(out, partFig{"b-r-g-cao2", "Oxygen content", f})
+		}
+		return out
+	case partGas:
+		tg := r.TrappedGas
+		return []partFig{
+			{"b-r-tg-ratio", "Expansion ratio", tg.Explain["ratio"]},
+			{"b-r-tg-cuff", "A " + tg.CuffMl.String() + " mL air pocket becomes", tg.Explain["cuff_at_altitude_ml"]},
+			{"b-r-tg-ptx", "A " + tg.PneumothoraxMl.String() + " mL pneumothorax becomes", tg.Explain["pneumothorax_at_altitude_ml"]},
+			{"b-r-tg-rigid", "Sealed rigid space: overpressure up to", tg.Explain["rigid_overpressure_cmh2o"]},
+		}
+	}
+	return nil
+}
+
+// partKey writes out everything a part shows.
+func (s *briefState) partKey(name string, r *physio.PlanResult) string {
+	var b strings.Builder
+	switch name {
+	case partGround:
+		b.WriteString(r.Ground.MeasuredAt)
+	case partGas:
+		b.WriteString(r.TrappedGas.Caution)
+	case partAssume:
+		for _, a := range r.Assumptions {
+			b.WriteString(a.Path + "=" + a.Value + ":" + a.Reason + "|")
+		}
+		return b.String()
+	}
+	for _, f := range s.partFigs(name, r) {
+		num, unit, note := s.shownFigure(f.f)
+		b.WriteString("|" + f.id + " " + f.label + " " + num + " " + unit + " " + note)
+		if s.open[f.id+"-how"] {
+			b.WriteString(" open " + strconv.Itoa(s.rev)) // an open "How" shows the inputs: redraw
+		}
+	}
+	return b.String()
 }
 
 // briefLegPart is one leg of the result panel as its own component. Key
