@@ -13,10 +13,14 @@ import (
 // reserve policy — recomputed by physio as the crew types, ending in the
 // go / no-go summary.
 //
-// Rendering is split so that a keystroke redraws little: each form card is
-// a child component that redraws itself when its own field changes; the
-// result panel redraws when the plan changes (its Rev); the other cards
-// are passed over (their Rev is unchanged, a cheap integer comparison).
+// Rendering is split so that a keystroke redraws little: each numeric
+// field is its own component (briefNum), and a keystroke that changes no
+// field's message redraws no part of the form — neither the Brief nor the
+// frame above it — only the result panel (briefState.typed). In the panel,
+// each figure, each leg and the slower-changing parts are components keyed
+// by the text they show, so the unchanged ones are passed over. An edit
+// that changes the form's shape or a message redraws the Brief; its cards
+// redraw when their Rev or messages changed.
 type brief struct {
 	app.Compo
 
