@@ -154,6 +154,17 @@ func TestReviewMatchesCLIAndPrints(t *testing.T) {
 	for _, small := range smallTargets(b) {
 		t.Errorf("review table: touch target under 44 px: %s", small)
 	}
+	// The two distribution plots, side by side at 1024×768 and stacked at
+	// 768×1024, draw every text at 12 px or more (as Altitude's).
+	for _, vp := range [][2]int64{{1024, 768}, {768, 1024}} {
+		b.viewport(vp[0], vp[1])
+		for _, id := range []string{"#rv-plot-ratio", "#rv-plot-reserve"} {
+			if px := b.plotTextSize(id); px < 12 {
+				t.Errorf("%d×%d: the smallest text of %s is %.1f px, want at least 12", vp[0], vp[1], id, px)
+			}
+		}
+	}
+	b.viewport(1024, 768)
 	b.screenshot("review-table", 1024, 768)
 	b.screenshot("review-table", 768, 1024)
 

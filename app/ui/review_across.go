@@ -339,7 +339,9 @@ func (r *review) renderDistributions() app.UI {
 	rows := r.shown.Transports
 	return app.Section().ID("rv-distributions").Class("alv-card rv-card").Aria("labelledby", "rv-dist-title").Body(
 		app.H3().ID("rv-dist-title").Class("alv-card-title").Text("Distributions"),
-		app.Div().Class("alv-plots").Body(
+		// Side by side at tablet width, on the narrow viewBox so that the
+		// axis text stays at 12 px or more (as on Altitude).
+		app.Div().Class("alv-plots alv-plots-pair").Body(
 			rvDistribution("rv-ratio-dist", r.shown.RatioDistribution,
 				rvDistributionPlot("rv-plot-ratio", "Used ÷ planned oxygen per transport", "Used ÷ planned", "1 = as planned", r.shown.RatioDistribution, rows)),
 			rvDistribution("rv-reserve-dist", r.shown.ReserveDistribution,

@@ -175,6 +175,7 @@ func rvDistributionPlot(id, title, yLabel, refLabel string, d logbook.Distributi
 		X:      plotAxis{Label: "Transport (row # of the table)", Min: 0, Max: xMax},
 		Y:      plotAxis{Label: yLabel, Min: 0, Max: hi},
 		HMarks: []plotHMark{{Y: 1, Label: refLabel}},
+		Narrow: true, // one of a pair (renderDistributions)
 		Lines:  []plotLine{{Name: "one transport", Class: "alv-plot-line-1 rv-dots", Points: pts, Markers: true}},
 	}
 }
