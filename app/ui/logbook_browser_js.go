@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"syscall/js"
-	"time"
 )
 
 // Browser file handling for the Logbook: reading a chosen bundle file and
@@ -65,23 +64,4 @@ func lbFileName(id string) string {
 		return ""
 	}
 	return el.Get("files").Index(0).Get("name").String()
-}
-
-// lbDownload offers data as a file named name.
-var lbDownload = func(name string, data []byte) error {
-	u8 := js.Global().Get("Uint8Array").New(len(data))
-	js.CopyBytesToJS(u8, data)
-	blob := js.Global().Get("Blob").New(js.ValueOf([]any{u8}), map[string]any{"type": "application/octet-stream"})
-	url := js.Global().Get("URL").Call("createObjectURL", blob)
-	doc := js.Global().Get("document")
-	a := doc.Call("createElement", "a")
-	a.Set("href", url)
-	a.Set("download", name)
-	a.Set("hidden", true)
-	doc.Get("body").Call("append", a)
-	a.Call("click")
-	a.Call("remove")
-	// Revoke once the browser has taken the bytes.
-	time.AfterFunc(time.Minute, func() { js.Global().Get("URL").Call("revokeObjectURL", url) })
-	return nil
 }
