@@ -306,9 +306,10 @@ func (b *browser) reload() {
 // page already holds the text, so only the marker proves app.wasm runs.
 func (b *browser) waitReady() {
 	b.t.Helper()
-	b.must("wait for the wasm app", chromedp.Poll[chromedp.Void](
-		fmt.Sprintf(`document.documentElement.getAttribute(%q) === "wasm"`, ui.ReadyAttr),
-		chromedp.WithPollingTimeout(60*time.Second)))
+	// waitFor polls again when a navigation replaces the page's JavaScript
+	// context in the middle of a poll (the service worker's first install
+	// and go-app's loader can both do that).
+	b.waitFor("the wasm app", fmt.Sprintf(`document.documentElement.getAttribute(%q) === "wasm"`, ui.ReadyAttr), 60*time.Second)
 }
 
 // waitFor waits until the JavaScript expression is truthy. It keeps
@@ -342,13 +343,31 @@ func (b *browser) waitControlled() {
 // eval evaluates expr and decodes its JSON value into T.
 func eval[T any](b *browser, expr string) T {
 	b.t.Helper()
-	ctx, cancel := context.WithTimeout(b.ctx, 60*time.Second)
-	defer cancel()
-	v, err := chromedp.Run(ctx, chromedp.Evaluate[T](expr, chromedp.EvalAwaitPromise))
-	if err != nil {
+	for attempt := 0; ; attempt++ {
+		ctx, cancel := context.WithTimeout(b.ctx, 60*time.Second)
+		v, err := chromedp.Run(ctx, chromedp.Evaluate[T](expr, chromedp.EvalAwaitPromise))
+		cancel()
+		if err == nil {
+			return v
+		}
+		// A page load that replaces the JavaScript context between two
+		// steps is not a failure of what is being checked: evaluate again
+		// in the new page, a few times at most.
+		if attempt < 5 && contextReplaced(err) {
+			time.Sleep(100 * time.Millisecond)
+			continue
+		}
 		b.t.Fatalf("eval %s: %v", expr, err)
 	}
-	return v
+}
+
+// contextReplaced tells whether err says the page's JavaScript context
+// went away under an evaluation (a navigation or reload in between).
+func contextReplaced(err error) bool {
+	msg := err.Error()
+	return strings.Contains(msg, "Cannot find context with specified id") ||
+		strings.Contains(msg, "Execution context was destroyed") ||
+		strings.Contains(msg, "Inspected target navigated or closed")
 }
 
 // text returns the trimmed textContent of the element with the CSS
