@@ -96,16 +96,9 @@ func newVault(store Store, raw []byte) *Vault {
 // passphrase and a damaged header both return ErrUnlock, and change
 // nothing.
 func (v *Vault) Unlock(ctx context.Context, passphrase string) error {
-	v.mu.Lock()
-	raw := v.raw
-	v.mu.Unlock()
-	h, err := parseHeader(raw)
+	h, dataKey, err := v.openHeader(passphrase)
 	if err != nil {
-		return ErrUnlock
-	}
-	dataKey, err := h.unwrap([]byte(passphrase))
-	if err != nil {
-		return ErrUnlock
+		return err
 	}
 	k, err := deriveKeys(dataKey)
 	if err != nil {
@@ -117,6 +110,24 @@ func (v *Vault) Unlock(ctx context.Context, passphrase string) error {
 	v.hdr = h
 	v.setKeys(k)
 	return nil
+}
+
+// openHeader parses the stored header and unwraps its data key with the
+// passphrase. Every failure is ErrUnlock: a wrong passphrase and a damaged
+// header must not be told apart.
+func (v *Vault) openHeader(passphrase string) (*header, []byte, error) {
+	v.mu.Lock()
+	raw := v.raw
+	v.mu.Unlock()
+	h, err := parseHeader(raw)
+	if err != nil {
+		return nil, nil, ErrUnlock
+	}
+	dataKey, err := h.unwrap([]byte(passphrase))
+	if err != nil {
+		return nil, nil, ErrUnlock
+	}
+	return h, dataKey, nil
 }
 
 // setKeys installs keys, resets the chain cache and starts the idle timer.
@@ -256,16 +267,9 @@ func (v *Vault) ChangePassphrase(ctx context.Context, current, next string, kdf 
 	if err := kdf.Validate(); err != nil {
 		return err
 	}
-	v.mu.Lock()
-	raw := v.raw
-	v.mu.Unlock()
-	h, err := parseHeader(raw)
+	h, dataKey, err := v.openHeader(current)
 	if err != nil {
-		return ErrUnlock
-	}
-	dataKey, err := h.unwrap([]byte(current))
-	if err != nil {
-		return ErrUnlock
+		return err
 	}
 	defer clear(dataKey)
 	nh := &header{version: formatVersion, vaultID: h.vaultID}
