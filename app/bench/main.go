@@ -27,6 +27,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 	"time"
 )
 
@@ -38,7 +39,29 @@ var (
 	skipNat  = flag.Bool("skip-native", false, "leave out the go test -bench figures")
 	skipWeb  = flag.Bool("skip-browser", false, "leave out the Chromium figures")
 	keepWork = flag.Bool("keep", false, "keep the build directory (its path is printed)")
+	probeWait = flag.Int("probe", -1, "")
+	only     = flag.String("only", "", "measure only these parts, comma-separated: sizes, start, brief, vault, native (all when empty; the report then covers only those)")
 )
+
+// parts is the set named by -only; wants reports whether part is measured.
+var parts = map[string]bool{}
+
+func wants(part string) bool { return len(parts) == 0 || parts[part] }
+
+func parseOnly() error {
+	if *only == "" {
+		return nil
+	}
+	for _, p := range strings.Split(*only, ",") {
+		switch p = strings.TrimSpace(p); p {
+		case "sizes", "start", "brief", "vault", "native":
+			parts[p] = true
+		default:
+			return fmt.Errorf("-only: unknown part %q (allowed: sizes, start, brief, vault, native)", p)
+		}
+	}
+	return nil
+}
 
 func main() {
 	flag.Parse()
@@ -51,6 +74,9 @@ func main() {
 func run() error {
 	if *runs < 1 {
 		return errors.New("-runs must be at least 1")
+	}
+	if err := parseOnly(); err != nil {
+		return err
 	}
 	repo, err := findRepoRoot()
 	if err != nil {
@@ -73,21 +99,31 @@ func run() error {
 		return err
 	}
 	r.Toolchain = toolchain()
-	progress("compressing app.wasm (cached by content after the first time)")
-	if err := sizes(alvea, floor, r); err != nil {
-		return err
+	if *probeWait >= 0 {
+		for _, p := range []*program{alvea, floor} {
+			if err := probePhases(p, 1, time.Duration(*probeWait)*time.Second); err != nil {
+				return err
+			}
+		}
+		return nil
 	}
-	progress("reading where the size goes (builds keeping names)")
-	if err := codeSizes(repo, work, r); err != nil {
-		return err
+	if wants("sizes") {
+		progress("compressing app.wasm (cached by content after the first time)")
+		if err := sizes(alvea, floor, r); err != nil {
+			return err
+		}
+		progress("reading where the size goes (builds keeping names)")
+		if err := codeSizes(repo, work, r); err != nil {
+			return err
+		}
 	}
 
-	if !*skipWeb {
+	if !*skipWeb && (wants("start") || wants("brief") || wants("vault")) {
 		if err := browserFigures(alvea, floor, r); err != nil {
 			return err
 		}
 	}
-	if !*skipNat {
+	if !*skipNat && wants("native") {
 		if err := nativeFigures(repo, r); err != nil {
 			return err
 		}

@@ -74,7 +74,7 @@ func (p *program) quiet(from int64) int64 {
 	return last - from
 }
 
-type startFigures struct {
+type startRuns struct {
 	first, warm          []float64 // ms
 	firstBytes, warmByte []float64
 }
@@ -82,13 +82,13 @@ type startFigures struct {
 // startTimes measures p at the CPU throttle rate: runs first visits, each
 // in a fresh profile (nothing cached, no service worker), then runs warm
 // starts in the last profile: reloads served by the service worker.
-func startTimes(p *program, rate float64, runs int) (*startFigures, error) {
+func startTimes(p *program, rate float64, runs int) (*startRuns, error) {
 	alvea := p.Name == "Alvea"
 	probe := interactiveProbe
 	if alvea {
 		probe = "window.__benchExpectMount = true;\n" + probe
 	}
-	f := &startFigures{}
+	f := &startRuns{}
 	var last *chrome
 	defer func() {
 		if last != nil {
@@ -152,11 +152,29 @@ func browserFigures(alvea, floor *program, r *report) error {
 		}
 		defer p.stop()
 	}
+	if wants("start") {
+		if err := startFigures(alvea, floor, r); err != nil {
+			return err
+		}
+	}
+	if wants("brief") {
+		if err := briefLatency(alvea, r); err != nil {
+			return err
+		}
+	}
+	if wants("vault") {
+		return vaultInBrowser(alvea, r)
+	}
+	return nil
+}
+
+// startFigures measures first visits and warm starts of both programs.
+func startFigures(alvea, floor *program, r *report) error {
 	type key struct {
 		p    *program
 		rate float64
 	}
-	figs := map[key]*startFigures{}
+	figs := map[key]*startRuns{}
 	for _, rate := range []float64{1, 4} {
 		for _, p := range []*program{alvea, floor} {
 			progress("%s: %d first visits and %d warm starts at %gx CPU throttle", p.Name, *runs, *runs, rate)
@@ -187,8 +205,5 @@ func browserFigures(alvea, floor *program, r *report) error {
 	r.note("Interactive: go-app has removed its loader (app.wasm has run its first render) and, for Alvea, the frame has set %s=\"wasm\" on <html> in OnMount; read on the page's clock from the start of the navigation. First visits each use a fresh profile; warm starts are reloads in the last of them, every resource served by the service worker.", ui.ReadyAttr)
 	r.note("Both programs are served the same way (the server package: app.wasm negotiated by Accept-Encoding); the floor keeps go-app's own service worker. Bytes are counted by a proxy in front of each server: headers, the page's requests and the worker's precache.")
 
-	if err := briefLatency(alvea, r); err != nil {
-		return err
-	}
-	return vaultInBrowser(alvea, r)
+	return nil
 }

@@ -17,11 +17,15 @@ func Serve(ctx context.Context, addr, root string, logw io.Writer) error {
 	if err != nil {
 		return err
 	}
+	handler, err := withLoader(h)
+	if err != nil {
+		return err
+	}
 	ln, err := net.Listen("tcp", addr)
 	if err != nil {
 		return fmt.Errorf("server: %w", err)
 	}
-	srv := &http.Server{Handler: h, ReadHeaderTimeout: 10 * time.Second}
+	srv := &http.Server{Handler: handler, ReadHeaderTimeout: 10 * time.Second}
 	fmt.Fprintf(logw, "alvea %s serving on http://%s\n", h.Version, ln.Addr())
 	done := make(chan error, 1)
 	go func() { done <- srv.Serve(ln) }()

@@ -32,6 +32,17 @@ func WriteStatic(out, root string) (string, error) {
 	if err := app.GenerateStaticWebsite(out, h); err != nil {
 		return "", fmt.Errorf("server: writing static site: %w", err)
 	}
+	appJS := filepath.Join(out, "app.js")
+	js, err := os.ReadFile(appJS)
+	if err != nil {
+		return "", fmt.Errorf("server: %w", err)
+	}
+	if js, err = PatchLoader(js); err != nil {
+		return "", err
+	}
+	if err := os.WriteFile(appJS, js, 0o644); err != nil {
+		return "", fmt.Errorf("server: %w", err)
+	}
 	web := filepath.Join(root, "web")
 	files, err := webFiles(web)
 	if err != nil {
