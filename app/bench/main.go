@@ -32,15 +32,15 @@ import (
 )
 
 var (
-	runs     = flag.Int("runs", 5, "runs of each start-up timing (at least 5 for the report)")
-	out      = flag.String("out", "dist/bench.md", "markdown file to write")
-	samples  = flag.Int("samples", 60, "keystrokes timed in the Brief")
-	records  = flag.Int("records", 10000, "records in the vault listed in Chromium")
-	skipNat  = flag.Bool("skip-native", false, "leave out the go test -bench figures")
-	skipWeb  = flag.Bool("skip-browser", false, "leave out the Chromium figures")
-	keepWork = flag.Bool("keep", false, "keep the build directory (its path is printed)")
-	probeWait = flag.Int("probe", -1, "")
-	only     = flag.String("only", "", "measure only these parts, comma-separated: sizes, start, brief, vault, native (all when empty; the report then covers only those)")
+	runs      = flag.Int("runs", 5, "runs of each start-up timing (at least 5 for the report)")
+	out       = flag.String("out", "dist/bench.md", "markdown file to write")
+	samples   = flag.Int("samples", 60, "keystrokes timed in the Brief")
+	records   = flag.Int("records", 10000, "records in the vault listed in Chromium")
+	skipNat   = flag.Bool("skip-native", false, "leave out the go test -bench figures")
+	skipWeb   = flag.Bool("skip-browser", false, "leave out the Chromium figures")
+	keepWork  = flag.Bool("keep", false, "keep the build directory (its path is printed)")
+	probeWait = flag.Int("probe", -1, "print the phases of warm starts, reloads this many seconds apart, and stop (-1: off)")
+	only      = flag.String("only", "", "measure only these parts, comma-separated: sizes, start, brief, vault, native (all when empty; the report then covers only those)")
 )
 
 // parts is the set named by -only; wants reports whether part is measured.
