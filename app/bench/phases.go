@@ -26,6 +26,13 @@ const phaseProbe = `(() => {
 		p.then(() => { window.__ph.instEnd = performance.now(); });
 		return p;
 	};
+	const cs = WebAssembly.compileStreaming;
+	WebAssembly.compileStreaming = function(r) {
+		window.__ph.cs = performance.now();
+		const p = cs.call(WebAssembly, r);
+		p.then(() => { window.__ph.csEnd = performance.now(); });
+		return p;
+	};
 	const ci = WebAssembly.instantiate;
 	WebAssembly.instantiate = function(a, b) {
 		window.__ph.instStart2 = performance.now();
@@ -65,7 +72,7 @@ func probePhases(p *program, rate float64, wait time.Duration) error {
 	for i := 0; i < 5; i++ {
 		c.do(120*time.Second, chromedp.Reload())
 		ms, _ := waitInteractive(c, alvea)
-		ph, _ := evalJS[map[string]float64](c, `(() => { const w = performance.getEntriesByType("resource").find(e => e.name.endsWith("app.wasm")); const n = performance.getEntriesByType("navigation")[0]; return Object.assign({}, window.__ph, {wasmStart: w ? w.startTime : -1, wasmEnd: w ? w.responseEnd : -1, dcl: n.domContentLoadedEventEnd, loaderGone: window.__benchLoaderGone, mounted: window.__benchMounted || -1}); })()`)
+		ph, _ := evalJS[map[string]float64](c, `(() => { const w = performance.getEntriesByType("resource").find(e => e.name.endsWith("app.wasm")); const n = performance.getEntriesByType("navigation")[0]; return Object.assign({}, window.__ph, {wasmStart: w ? w.startTime : -1, wasmFetches: performance.getEntriesByType("resource").filter(e => e.name.endsWith("app.wasm")).length, early: window.alveaWasm === null ? 1 : 0, cs: window.__ph.cs || -1, wasmEnd: w ? w.responseEnd : -1, dcl: n.domContentLoadedEventEnd, loaderGone: window.__benchLoaderGone, mounted: window.__benchMounted || -1, workerStart: n.workerStart, navRespStart: n.responseStart, navRespEnd: n.responseEnd, domInteractive: n.domInteractive}, Object.fromEntries(performance.getEntriesByType("resource").filter(e => !e.name.endsWith("app.wasm")).map(e => [e.name.replace(/^.*\//, "") + "@", Math.round(e.startTime) * 1000 + Math.round(e.responseEnd)]))); })()`)
 		fmt.Printf("%s warm %.0f %v\n", p.Name, ms, ph)
 		time.Sleep(wait)
 	}

@@ -104,7 +104,11 @@ func startAppAt(t *testing.T, addr, root string) *testServer {
 	if err != nil {
 		t.Fatalf("app handler: %v", err)
 	}
-	s := &testServer{t: t, handler: h, Version: h.Version}
+	handler, err := server.WithLoader(h)
+	if err != nil {
+		t.Fatalf("app handler: %v", err)
+	}
+	s := &testServer{t: t, handler: handler, Version: h.Version}
 	s.listen(addr)
 	return s
 }

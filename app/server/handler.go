@@ -93,7 +93,7 @@ func NewHandler(root string) (*app.Handler, error) {
 		BackgroundColor:       backgroundTint,
 		LoadingLabel:          "Loading Alvea {progress}%",
 		Styles:                styles,
-		Scripts:               []string{"/web/theme.js", "/web/alvea.js defer"},
+		Scripts:               []string{"/web/boot.js", "/web/alvea.js defer"},
 		CacheableResources:    cacheable,
 		RawHeaders:            []string{`<meta http-equiv="Content-Security-Policy" content="` + contentSecurityPolicy + `">`},
 		Resources:             resources,

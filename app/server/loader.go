@@ -5,50 +5,66 @@ import (
 	"fmt"
 	"net/http"
 	"net/http/httptest"
+	"regexp"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 )
 
-// go-app's loader (its app.js) hands the compiler a Response it rebuilds
-// from a stream, to count the bytes for its progress label. A rebuilt
+// Start-up: go-app's loader (its app.js, a deferred script) starts
+// fetching and compiling app.wasm only once the whole page is parsed and
+// its style sheets loaded, and it hands the compiler a Response rebuilt
+// from a stream (to count bytes for its progress label). A rebuilt
 // Response has no URL, so Chromium can neither keep the code it compiled
-// for app.wasm nor reuse it: every start compiles the whole module again.
-// When a service worker controls the page, app.wasm comes from the
-// worker's cache, there is nothing to count, and Alvea hands the compiler
-// the fetched Response itself; Chromium then keeps the compiled code beside
-// the cached app.wasm and a warm start reuses it. A first visit (no worker
-// yet) keeps go-app's progress.
+// nor reuse it: every start compiles the whole module again.
+//
+// Alvea serves app.js with one call replaced. web/boot.js (an async
+// script, run as soon as it arrives) starts the compile early and leaves
+// its promise in window.alveaWasm; the patched loader instantiates that
+// module. When boot.js has not run first, the loader compiles itself:
+// served by the service worker, from the fetched Response as it is (so the
+// compiled code can be kept); on a first visit, through go-app's counting
+// fetch, for its progress label. Whatever fails early falls back to
+// loading app.wasm again the go-app way, which reports its own errors.
 
-// loaderCall is the call in go-app's app.js that the patch replaces, and
-// loaderFunc the function the patch adds.
-const (
-	loaderCall = `fetchWithProgress("`
-	loaderFunc = `
-// Alvea: served by the service worker, app.wasm is passed to the compiler
-// as fetched, so the browser can keep and reuse the compiled code.
-function alveaFetchWasm(url, progress) {
-  if (navigator.serviceWorker && navigator.serviceWorker.controller) {
-    return fetch(url);
+// loaderCall matches the call in go-app's app.js that the patch replaces;
+// its group is the URL of app.wasm.
+var loaderCall = regexp.MustCompile(`instantiateStreaming\(\s*fetchWithProgress\("([^"]+)", showProgress\),\s*go\.importObject\s*\)`)
+
+// loaderFunc is the function the patch adds.
+const loaderFunc = `
+// Alvea: instantiates the module web/boot.js started compiling, or
+// compiles now (see app/server/loader.go).
+async function alveaInstantiate(instantiateStreaming, url, progress, importObject) {
+  const early = window.alveaWasm;
+  window.alveaWasm = null; // taken: boot.js, if it runs later, starts nothing
+  if (early) {
+    try {
+      const module = await early;
+      return { module: module, instance: await WebAssembly.instantiate(module, importObject) };
+    } catch (err) {
+      console.warn("Alvea: early compile of app.wasm failed, loading it again:", err);
+    }
   }
-  return fetchWithProgress(url, progress);
+  const controlled = navigator.serviceWorker && navigator.serviceWorker.controller;
+  return instantiateStreaming(controlled ? fetch(url) : fetchWithProgress(url, progress), importObject);
 }
 `
-)
 
-// PatchLoader returns go-app's app.js with its app.wasm fetch replaced as
+// PatchLoader returns go-app's app.js with its app.wasm loading replaced as
 // described above. It fails if go-app's app.js no longer has the one call
 // it replaces (a go-app update must be looked at, not patched blindly).
 func PatchLoader(js []byte) ([]byte, error) {
-	if n := bytes.Count(js, []byte(loaderCall)); n != 1 {
-		return nil, fmt.Errorf("server: go-app's app.js has %d calls %q where 1 was expected: its loader changed, review PatchLoader", n, loaderCall)
+	if n := len(loaderCall.FindAllIndex(js, -1)); n != 1 {
+		return nil, fmt.Errorf("server: go-app's app.js has %d calls matching %q where 1 was expected: its loader changed, review PatchLoader", n, loaderCall)
 	}
-	out := bytes.Replace(js, []byte(loaderCall), []byte(`alveaFetchWasm("`), 1)
+	out := loaderCall.ReplaceAll(js, []byte(`alveaInstantiate(instantiateStreaming, "$1", showProgress, go.importObject)`))
 	return append(out, loaderFunc...), nil
 }
 
-// withLoader serves h, with /app.js replaced by its patched copy.
-func withLoader(h *app.Handler) (http.Handler, error) {
+// WithLoader serves h, with /app.js replaced by its patched copy: the
+// handler Serve uses.
+func WithLoader(h *app.Handler) (http.Handler, error) {
 	rec := httptest.NewRecorder()
 	h.ServeHTTP(rec, httptest.NewRequest(http.MethodGet, "/app.js", nil))
 	if rec.Code != http.StatusOK {

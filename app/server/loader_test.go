@@ -17,7 +17,7 @@ func TestServedLoaderPatched(t *testing.T) {
 	}
 	plain := httptest.NewServer(h)
 	defer plain.Close()
-	wrapped, err := withLoader(h)
+	wrapped, err := WithLoader(h)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -29,14 +29,25 @@ func TestServedLoaderPatched(t *testing.T) {
 	if got := resp.Header.Get("Content-Type"); !strings.Contains(got, "javascript") {
 		t.Errorf("Content-Type %q", got)
 	}
-	if strings.Contains(string(js), loaderCall) {
-		t.Error("the patched app.js still calls go-app's fetchWithProgress for app.wasm")
+	if loaderCall.Match(js) {
+		t.Error("the patched app.js still has go-app's app.wasm loading")
 	}
-	if !strings.Contains(string(js), `alveaFetchWasm("/web/app.wasm", showProgress)`) {
-		t.Error("the patched app.js does not fetch app.wasm through alveaFetchWasm")
+	// The URL boot.js compiles early is the one go-app loads.
+	call := `alveaInstantiate(instantiateStreaming, "/web/app.wasm", showProgress, go.importObject)`
+	if !strings.Contains(string(js), call) {
+		t.Errorf("the patched app.js lacks %s", call)
 	}
-	undo := strings.Replace(strings.TrimSuffix(string(js), loaderFunc), `alveaFetchWasm("`, loaderCall, 1)
-	if undo != string(orig) {
+	boot, err := os.ReadFile(filepath.Join("..", "..", "web", "boot.js"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(boot), `var url = "/web/app.wasm";`) {
+		t.Error("web/boot.js does not compile /web/app.wasm")
+	}
+	// Nothing else changed.
+	undo := strings.Replace(strings.TrimSuffix(string(js), loaderFunc), call, "@", 1)
+	o := loaderCall.ReplaceAllString(string(orig), "@")
+	if undo != o {
 		t.Error("the patch changed more than the one call")
 	}
 	// Other paths are go-app's.
@@ -47,7 +58,7 @@ func TestServedLoaderPatched(t *testing.T) {
 }
 
 func TestPatchLoaderRefusesUnknownLoader(t *testing.T) {
-	for _, js := range []string{"", "const x = 1;", loaderCall + "a\", p);\n" + loaderCall + "b\", p);"} {
+	for _, js := range []string{"", "const x = 1;", strings.Repeat(`instantiateStreaming(fetchWithProgress("/a", showProgress), go.importObject)`, 2)} {
 		if _, err := PatchLoader([]byte(js)); err == nil {
 			t.Errorf("PatchLoader(%q) accepted a loader it does not know", js)
 		}
@@ -63,7 +74,7 @@ func TestStaticLoaderPatched(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if strings.Contains(string(js), loaderCall) || !strings.Contains(string(js), "function alveaFetchWasm(") {
+	if loaderCall.Match(js) || !strings.Contains(string(js), "async function alveaInstantiate(") {
 		t.Error("the static app.js is not patched")
 	}
 }

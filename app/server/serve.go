@@ -17,7 +17,7 @@ func Serve(ctx context.Context, addr, root string, logw io.Writer) error {
 	if err != nil {
 		return err
 	}
-	handler, err := withLoader(h)
+	handler, err := WithLoader(h)
 	if err != nil {
 		return err
 	}

@@ -26,7 +26,7 @@ func fakeRoot(t *testing.T) string {
 	if err := os.MkdirAll(web, 0o755); err != nil {
 		t.Fatal(err)
 	}
-	for _, name := range []string{"alvea.css", "alvea.js", "theme.js", "icon.svg", "icon-192.png", "icon-512.png", "icon-maskable-512.png"} {
+	for _, name := range []string{"alvea.css", "alvea.js", "boot.js", "icon.svg", "icon-192.png", "icon-512.png", "icon-maskable-512.png"} {
 		b, err := os.ReadFile(filepath.Join("..", "..", "web", name))
 		if err != nil {
 			t.Fatal(err)
@@ -138,7 +138,7 @@ func TestHandlerOffline(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := []string{"/", "/app.js", "/app.css", "/wasm_exec.js", "/manifest.webmanifest",
-		"/web/app.wasm", "/web/alvea.css", "/web/alvea.js", "/web/theme.js", "/web/icon.svg", "/web/icon-192.png", "/web/icon-512.png", "/web/icon-maskable-512.png"}
+		"/web/app.wasm", "/web/alvea.css", "/web/alvea.js", "/web/boot.js", "/web/icon.svg", "/web/icon-192.png", "/web/icon-512.png", "/web/icon-maskable-512.png"}
 	for _, w := range want {
 		if !contains(list, w) {
 			t.Errorf("precache lacks %s", w)

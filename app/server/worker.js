@@ -58,9 +58,27 @@ self.addEventListener("fetch", (event) => {
   event.respondWith(respond(request));
 });
 
+// The cache is opened once per worker start, not once per request.
+let opened = null;
+function openCache() {
+  if (!opened) {
+    opened = caches.open(cacheName);
+    opened.catch(() => {
+      opened = null;
+    });
+  }
+  return opened;
+}
+
 async function respond(request) {
-  const cache = await caches.open(cacheName);
-  const hit = await cache.match(request, { ignoreSearch: true });
+  const cache = await openCache();
+  // An exact match first: matching with ignoreSearch reads every entry of
+  // the cache, and a start asks for a dozen files at once. Only a URL that
+  // carries a query string needs the second lookup.
+  let hit = await cache.match(request);
+  if (!hit && new URL(request.url).search !== "") {
+    hit = await cache.match(request, { ignoreSearch: true });
+  }
   if (hit) {
     return hit;
   }
