@@ -9,28 +9,64 @@ import (
 	"github.com/chromedp/chromedp"
 )
 
-// latencyProbe times each keystroke in the Brief: from the input event
-// (a capturing listener on window, which runs before the app's own) to the
-// first change the app makes inside the result panel (#b-result), seen by
-// a MutationObserver. Nothing in the app is changed for it.
+// latencyProbe times each keystroke in the Brief from the input event (a
+// capturing listener on window, which runs before the app's own) to the
+// changes the app makes inside the result panel (#b-result), seen by a
+// MutationObserver: the first change, and the last one before the panel
+// stays quiet (settled; see settleQuiet). A change is seen when its task
+// ends, so both include the rest of the work done in that task. Nothing in
+// the app is changed for it.
 const latencyProbe = `(() => {
-	window.__lat = [];
-	let t0 = null;
-	window.addEventListener("input", () => { t0 = performance.now(); }, true);
+	window.__keys = 0;
+	window.__key = null;
+	window.addEventListener("input", () => {
+		window.__keys++;
+		window.__key = {t0: performance.now(), first: null, last: null};
+	}, true);
 	new MutationObserver((records) => {
-		if (t0 === null) return;
+		const k = window.__key;
+		if (k === null) return;
 		const panel = document.getElementById("b-result");
 		if (!panel) return;
 		for (const r of records) {
 			if (panel.contains(r.target) || r.target === panel) {
-				window.__lat.push(performance.now() - t0);
-				t0 = null;
+				const now = performance.now();
+				if (k.first === null) k.first = now;
+				k.last = now;
 				return;
 			}
 		}
 	}).observe(document.body, {childList: true, subtree: true, characterData: true, attributes: true});
 	return true;
 })()`
+
+// settleQuiet is how long the panel must stay unchanged after its last
+// change for a keystroke to count as settled; keyWait how long a
+// keystroke may take to change the panel at all.
+const (
+	settleQuiet = 200 // ms
+	keyWait     = 2000
+)
+
+// keyTiming waits until the keystroke numbered after before has settled,
+// and returns [first, settled] in ms from its input event, or [] when it
+// changed nothing in the panel within keyWait. A panel that never stays
+// quiet is cut off at ten times keyWait (its last change then counts).
+const keyTiming = `((before) => new Promise(res => {
+	const f = () => {
+		const k = window.__key, now = performance.now();
+		if (window.__keys > before && k !== null && now - k.t0 > 10 * %d) {
+			res(k.first === null ? [] : [k.first - k.t0, k.last - k.t0]); return;
+		}
+		if (window.__keys > before && k !== null) {
+			if (k.first !== null && now - k.last >= %d) { res([k.first - k.t0, k.last - k.t0]); return; }
+			if (k.first === null && now - k.t0 > %d) { res([]); return; }
+		} else if (now - start > %d) { res([]); return; }
+		setTimeout(f, 10);
+	};
+	const start = performance.now();
+	f();
+}))(%d)`
 
 // fillBrief types a whole transport into the Brief, as the Brief's browser
 // test does (a scenario of our own: 1000 ft to 5000 ft, pressurised cabin,
@@ -77,7 +113,9 @@ func fillBrief(c *chrome) error {
 
 // briefLatency fills the Brief at 1x, then at 4x CPU throttle types into
 // the cabin leg's minutes, one key at a time (a digit, then a backspace:
-// 8, 85, 8, 86, 8, …; every value a different plan), timing each.
+// 8, 85, 8, 86, 8, …; every value a different plan), timing each to the
+// first change and to the settled panel. A key is sent once the last one
+// has settled.
 func briefLatency(alvea *program, r *report) error {
 	progress("Brief: %d keystrokes at 4x CPU throttle", *samples)
 	c, err := newChrome()
@@ -107,6 +145,7 @@ func briefLatency(alvea *program, r *report) error {
 	defer c.throttle(1)
 	digits := "5679432"
 	missed := 0
+	var first, settled []float64
 	for i := 0; i < *samples; i++ {
 		key := "8"
 		switch {
@@ -116,40 +155,60 @@ func briefLatency(alvea *program, r *report) error {
 		default:
 			key = "\b"
 		}
-		before, err := evalJS[int](c, `window.__lat.length`)
+		before, err := evalJS[int](c, `window.__keys`)
 		if err != nil {
 			return err
 		}
 		if err := c.do(30*time.Second, chromedp.KeyEvent(key)); err != nil {
 			return err
 		}
-		got, err := evalJS[int](c, fmt.Sprintf(`new Promise(res => { const s = performance.now();
-			const f = () => (window.__lat.length > %d || performance.now() - s > 2000) ? res(window.__lat.length) : setTimeout(f, 10); f(); })`, before))
+		got, err := evalJS[[]float64](c, fmt.Sprintf(keyTiming, keyWait, settleQuiet, keyWait, keyWait, before))
 		if err != nil {
 			return err
 		}
-		if got == before {
+		if len(got) != 2 {
 			missed++
+			continue
 		}
-	}
-	lat, err := evalJS[[]float64](c, `window.__lat`)
-	if err != nil {
-		return err
+		first = append(first, got[0])
+		settled = append(settled, got[1])
 	}
 	value, _ := evalJS[string](c, fmt.Sprintf(`document.querySelector(%q).value`, field))
-	if len(lat) == 0 {
+	if len(first) == 0 {
 		return fmt.Errorf("no keystroke changed the Brief's result (field now %q)", value)
 	}
-	r.add(section("Brief recompute, input event to result panel updated, 4x CPU (ms)"))
-	p50 := row{Name: "p50", Unit: "ms", A: stat{Median: percentile(lat, 50), N: len(lat), Set: true, Min: percentile(lat, 50), Max: percentile(lat, 50)}}
-	p95 := row{Name: "p95", Unit: "ms", A: stat{Median: percentile(lat, 95), N: len(lat), Set: true, Min: percentile(lat, 95), Max: percentile(lat, 95)}}
-	p95.Budget = &budget{Text: "≤ 8 ms", Met: p95.A.Median <= 8}
-	all := summary(lat)
-	r.add(p50)
-	r.add(p95)
-	r.add(row{Name: "all keystrokes", Unit: "ms", A: all})
+	// The budget is what the crew sees complete: the settled p95. The
+	// first change is shown beside it, so a partial update cannot pass
+	// for a whole one.
+	const limit = 8.0
+	pct := func(name string, vs []float64, p float64, budgeted bool) row {
+		v := percentile(vs, p)
+		x := row{Name: name, Unit: "ms", A: stat{Median: v, N: len(vs), Set: true, Min: v, Max: v}}
+		if budgeted {
+			x.Budget = &budget{Text: "≤ 8 ms", Met: v <= limit}
+		}
+		return x
+	}
+	r.add(section("Brief recompute at 4x CPU, input event to the first change in the result panel (ms)"))
+	r.add(pct("p50", first, 50, false))
+	r.add(pct("p95", first, 95, false))
+	r.add(row{Name: "all keystrokes", Unit: "ms", A: summary(first)})
+	r.add(section(fmt.Sprintf("Brief recompute at 4x CPU, input event to the result panel settled (its last change before %d ms unchanged) (ms)", settleQuiet)))
+	r.add(pct("p50", settled, 50, false))
+	r.add(pct("p95", settled, 95, true))
+	r.add(row{Name: "all keystrokes", Unit: "ms", A: summary(settled)})
+	firstP95 := percentile(first, 95)
+	r.note("Brief: the 8 ms budget is read on the settled p95 (the panel complete), not on the first change; first-change p95 %.1f ms (%s 8 ms), settled p95 %.1f ms (%s 8 ms).",
+		firstP95, within(firstP95 <= limit), percentile(settled, 95), within(percentile(settled, 95) <= limit))
 	if missed > 0 {
-		r.note("Brief: %d of %d keystrokes changed nothing in the result panel within 2 s and are not counted.", missed, *samples)
+		r.note("Brief: %d of %d keystrokes changed nothing in the result panel within %d ms and are not counted.", missed, *samples, keyWait)
 	}
 	return nil
+}
+
+func within(ok bool) string {
+	if ok {
+		return "within"
+	}
+	return "over"
 }
