@@ -16,6 +16,7 @@ import (
 )
 
 func main() {
+	ui.Mark("alvea:main")
 	ui.Register()
 	// In the browser this runs the app and never returns; natively it
 	// returns at once.

@@ -1,10 +1,11 @@
-// Alvea: the first script of every page, loaded without defer on purpose.
+// Alvea: the first script of every page, ahead of the style sheets (the
+// server puts it there), loaded without defer on purpose.
 //
 // 1. Applies the saved theme before the page is drawn, so a start at night
 //    never flashes the day colours (the app itself starts later). Reads
 //    only the theme from the saved settings.
 // 2. Starts compiling app.wasm at once. go-app's loader (app.js, a deferred
-//    script) would only start once the whole page is parsed; app.js (as
+//    script) would only start once the whole page is parsed and styled; app.js (as
 //    Alvea serves it, see app/server/loader.go) takes the module compiled
 //    here. Served by the service worker (a warm start), app.wasm is passed
 //    to the compiler as fetched, so the browser can keep and reuse the

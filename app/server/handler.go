@@ -83,17 +83,19 @@ func NewHandler(root string) (*app.Handler, error) {
 		cacheable = append(cacheable, "/web/"+f)
 	}
 	return &app.Handler{
-		Name:                  appName,
-		ShortName:             appName,
-		Title:                 appTitle,
-		Description:           appDescription,
-		Lang:                  "en",
-		Icon:                  icons,
-		ThemeColor:            themeColor,
-		BackgroundColor:       backgroundTint,
-		LoadingLabel:          "Loading Alvea {progress}%",
-		Styles:                styles,
-		Scripts:               []string{"/web/boot.js", "/web/alvea.js defer"},
+		Name:            appName,
+		ShortName:       appName,
+		Title:           appTitle,
+		Description:     appDescription,
+		Lang:            "en",
+		Icon:            icons,
+		ThemeColor:      themeColor,
+		BackgroundColor: backgroundTint,
+		LoadingLabel:    "Loading Alvea {progress}%",
+		Styles:          styles,
+		// web/boot.js goes first in the head, before the styles (see
+		// PatchPage); go-app would put it after them.
+		Scripts:               []string{"/web/alvea.js defer"},
 		CacheableResources:    cacheable,
 		RawHeaders:            []string{`<meta http-equiv="Content-Security-Policy" content="` + contentSecurityPolicy + `">`},
 		Resources:             resources,

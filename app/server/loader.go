@@ -5,7 +5,10 @@ import (
 	"fmt"
 	"net/http"
 	"net/http/httptest"
+	"path"
 	"regexp"
+	"strconv"
+	"strings"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -18,9 +21,10 @@ import (
 // Response has no URL, so Chromium can neither keep the code it compiled
 // nor reuse it: every start compiles the whole module again.
 //
-// Alvea serves app.js with one call replaced. web/boot.js (an async
-// script, run as soon as it arrives) starts the compile early and leaves
-// its promise in window.alveaWasm; the patched loader instantiates that
+// Alvea serves every page with web/boot.js as the first script of its
+// head, before the style sheets (a script after them would wait for them),
+// and app.js with one call replaced. boot.js starts the compile at once and
+// leaves its promise in window.alveaWasm; the patched loader instantiates that
 // module. When boot.js has not run first, the loader compiles itself:
 // served by the service worker, from the fetched Response as it is (so the
 // compiled code can be kept); on a first visit, through go-app's counting
@@ -62,8 +66,30 @@ func PatchLoader(js []byte) ([]byte, error) {
 	return append(out, loaderFunc...), nil
 }
 
-// WithLoader serves h, with /app.js replaced by its patched copy: the
-// handler Serve uses.
+// bootTag is the script tag PatchPage puts first in the head, and
+// charsetTag the tag it goes after (the charset must stay first).
+const (
+	bootTag    = `<script src="/web/boot.js"></script>`
+	charsetTag = `<meta charset="UTF-8">`
+)
+
+// PatchPage returns a page go-app rendered with web/boot.js as the first
+// script of its head. It fails on a page without go-app's charset tag.
+func PatchPage(html []byte) ([]byte, error) {
+	i := bytes.Index(html, []byte(charsetTag))
+	if i < 0 {
+		return nil, fmt.Errorf("server: the page has no %s to put boot.js after: go-app's page changed, review PatchPage", charsetTag)
+	}
+	i += len(charsetTag)
+	out := make([]byte, 0, len(html)+len(bootTag)+1)
+	out = append(out, html[:i]...)
+	out = append(out, '\n')
+	out = append(out, bootTag...)
+	return append(out, html[i:]...), nil
+}
+
+// WithLoader serves h, with /app.js replaced by its patched copy and
+// every page patched by PatchPage: the handler Serve uses.
 func WithLoader(h *app.Handler) (http.Handler, error) {
 	rec := httptest.NewRecorder()
 	h.ServeHTTP(rec, httptest.NewRequest(http.MethodGet, "/app.js", nil))
@@ -76,15 +102,52 @@ func WithLoader(h *app.Handler) (http.Handler, error) {
 	}
 	header := rec.Header()
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		if r.URL.Path != "/app.js" {
+		switch {
+		case r.URL.Path == "/app.js":
+			for _, k := range []string{"Content-Type", "Cache-Control", "ETag"} {
+				if v := header.Get(k); v != "" {
+					w.Header().Set(k, v)
+				}
+			}
+			http.ServeContent(w, r, "app.js", time.Time{}, bytes.NewReader(js))
+		case isPage(r.URL.Path):
+			servePage(w, r, h)
+		default:
 			h.ServeHTTP(w, r)
+		}
+	}), nil
+}
+
+// isPage reports whether go-app answers path with a page: any path that
+// names no file (routes such as / and /supply, and unknown ones, which get
+// go-app's not-found page), or an .html file.
+func isPage(p string) bool {
+	ext := path.Ext(p)
+	return ext == "" || ext == ".html"
+}
+
+// servePage serves go-app's answer for a page (GET), patched when it is
+// HTML.
+func servePage(w http.ResponseWriter, r *http.Request, h http.Handler) {
+	if r.Method != http.MethodGet {
+		h.ServeHTTP(w, r)
+		return
+	}
+	rec := httptest.NewRecorder()
+	h.ServeHTTP(rec, r)
+	body := rec.Body.Bytes()
+	if strings.HasPrefix(rec.Header().Get("Content-Type"), "text/html") {
+		patched, err := PatchPage(body)
+		if err != nil {
+			http.Error(w, err.Error(), http.StatusInternalServerError)
 			return
 		}
-		for _, k := range []string{"Content-Type", "Cache-Control", "ETag"} {
-			if v := header.Get(k); v != "" {
-				w.Header().Set(k, v)
-			}
-		}
-		http.ServeContent(w, r, "app.js", time.Time{}, bytes.NewReader(js))
-	}), nil
+		body = patched
+	}
+	for k, v := range rec.Header() {
+		w.Header()[k] = v
+	}
+	w.Header().Set("Content-Length", strconv.Itoa(len(body)))
+	w.WriteHeader(rec.Code)
+	w.Write(body)
 }

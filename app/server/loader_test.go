@@ -4,6 +4,7 @@ import (
 	"net/http/httptest"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -76,5 +77,68 @@ func TestStaticLoaderPatched(t *testing.T) {
 	}
 	if loaderCall.Match(js) || !strings.Contains(string(js), "async function alveaInstantiate(") {
 		t.Error("the static app.js is not patched")
+	}
+}
+
+// Every page, served or static, runs web/boot.js first: right after the
+// charset, before any style sheet (a script after a style sheet waits for
+// it) and before go-app's own scripts.
+func checkBootFirst(t *testing.T, name, page string) {
+	t.Helper()
+	boot := strings.Index(page, bootTag)
+	if boot < 0 {
+		t.Errorf("%s: no %s", name, bootTag)
+		return
+	}
+	if strings.Count(page, "/web/boot.js") != 1 {
+		t.Errorf("%s: boot.js appears %d times", name, strings.Count(page, "/web/boot.js"))
+	}
+	for _, later := range []string{`rel="stylesheet"`, `/app.js`, `/wasm_exec.js`} {
+		if i := strings.Index(page, later); i < 0 || i < boot {
+			t.Errorf("%s: %s is not after boot.js", name, later)
+		}
+	}
+	if !strings.HasPrefix(page[strings.Index(page, charsetTag)+len(charsetTag):], "\n"+bootTag) {
+		t.Errorf("%s: boot.js does not follow the charset", name)
+	}
+}
+
+func TestPagesRunBootFirst(t *testing.T) {
+	root := fakeRoot(t)
+	h, err := NewHandler(root)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wrapped, err := WithLoader(h)
+	if err != nil {
+		t.Fatal(err)
+	}
+	srv := httptest.NewServer(wrapped)
+	defer srv.Close()
+	// A path that is no screen is go-app's plain-text 404, passed on.
+	if resp, body := fetch(t, srv, "GET", "/no-such-screen", ""); resp.StatusCode != 404 || strings.Contains(string(body), bootTag) {
+		t.Errorf("/no-such-screen: status %d, body %q", resp.StatusCode, body)
+	}
+	for _, p := range []string{"/", "/supply", "/settings", "/logbook"} {
+		resp, body := fetch(t, srv, "GET", p, "")
+		if got := resp.Header.Get("Content-Length"); got != "" && got != strconv.Itoa(len(body)) {
+			t.Errorf("%s: Content-Length %s, body %d bytes", p, got, len(body))
+		}
+		checkBootFirst(t, p, string(body))
+	}
+	out := t.TempDir()
+	if _, err := WriteStatic(out, root); err != nil {
+		t.Fatal(err)
+	}
+	pages, _ := filepath.Glob(filepath.Join(out, "*.html"))
+	if len(pages) < 6 {
+		t.Fatalf("static site has %d pages", len(pages))
+	}
+	for _, p := range pages {
+		b, _ := os.ReadFile(p)
+		checkBootFirst(t, "static "+filepath.Base(p), string(b))
+	}
+	if _, err := PatchPage([]byte("<html><head><title>x</title></head></html>")); err == nil {
+		t.Error("PatchPage accepted a page without go-app's charset tag")
 	}
 }

@@ -32,6 +32,22 @@ func WriteStatic(out, root string) (string, error) {
 	if err := app.GenerateStaticWebsite(out, h); err != nil {
 		return "", fmt.Errorf("server: writing static site: %w", err)
 	}
+	pages, err := filepath.Glob(filepath.Join(out, "*.html"))
+	if err != nil {
+		return "", fmt.Errorf("server: %w", err)
+	}
+	for _, p := range pages {
+		html, err := os.ReadFile(p)
+		if err != nil {
+			return "", fmt.Errorf("server: %w", err)
+		}
+		if html, err = PatchPage(html); err != nil {
+			return "", fmt.Errorf("server: %s: %w", filepath.Base(p), err)
+		}
+		if err := os.WriteFile(p, html, 0o644); err != nil {
+			return "", fmt.Errorf("server: %w", err)
+		}
+	}
 	appJS := filepath.Join(out, "app.js")
 	js, err := os.ReadFile(appJS)
 	if err != nil {

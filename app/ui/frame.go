@@ -36,6 +36,7 @@ func newFrameOn(path string, session *vaultSession) *frame {
 }
 
 func (f *frame) OnMount(ctx app.Context) {
+	Mark("alvea:mount")
 	f.settings = LoadSettings(ctx)
 	ctx.ObserveState(SettingsKey, &f.settings).OnChange(func() {
 		applyTheme(f.settings.Theme)

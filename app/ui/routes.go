@@ -48,3 +48,11 @@ func screenFor(path string) screen {
 	}
 	return screens[0]
 }
+
+// Mark leaves a named mark on the page's performance timeline (in the
+// browser only), so start-up can be taken apart (make bench's -probe).
+func Mark(name string) {
+	if app.IsClient {
+		app.Window().Get("performance").Call("mark", name)
+	}
+}
