@@ -42,6 +42,9 @@ const phaseProbe = `(() => {
 	};
 })();`
 
+// phasesJS reads the phases of the page's start.
+const phasesJS = `(() => { const w = performance.getEntriesByType("resource").find(e => e.name.endsWith("app.wasm")); const n = performance.getEntriesByType("navigation")[0]; return Object.assign({}, window.__ph, {wasmStart: w ? w.startTime : -1, goMain: (performance.getEntriesByName("alvea:main")[0] || {startTime: -1}).startTime, goMount: (performance.getEntriesByName("alvea:mount")[0] || {startTime: -1}).startTime, wasmFetches: performance.getEntriesByType("resource").filter(e => e.name.endsWith("app.wasm")).length, early: window.alveaWasm === null ? 1 : 0, cs: window.__ph.cs || -1, wasmEnd: w ? w.responseEnd : -1, dcl: n.domContentLoadedEventEnd, loaderGone: window.__benchLoaderGone, mounted: window.__benchMounted || -1, workerStart: n.workerStart, navRespStart: n.responseStart, navRespEnd: n.responseEnd, domInteractive: n.domInteractive}, Object.fromEntries(performance.getEntriesByType("resource").filter(e => !e.name.endsWith("app.wasm")).map(e => [e.name.replace(/^.*\//, "") + "@", Math.round(e.startTime) * 1000 + Math.round(e.responseEnd)]))); })()`
+
 // probePhases prints the phases of p's warm starts at the CPU rate, wait
 // apart.
 func probePhases(p *program, rate float64, wait time.Duration) error {
@@ -66,13 +69,14 @@ func probePhases(p *program, rate float64, wait time.Duration) error {
 		return err
 	}
 	ms, _ := waitInteractive(c, alvea)
-	fmt.Println(p.Name, "first", ms)
+	ph, _ := evalJS[map[string]float64](c, phasesJS)
+	fmt.Printf("%s first %.0f %v\n", p.Name, ms, ph)
 	evalJS[bool](c, `navigator.serviceWorker.ready.then(() => true)`)
 	time.Sleep(wait)
 	for i := 0; i < 5; i++ {
 		c.do(120*time.Second, chromedp.Reload())
 		ms, _ := waitInteractive(c, alvea)
-		ph, _ := evalJS[map[string]float64](c, `(() => { const w = performance.getEntriesByType("resource").find(e => e.name.endsWith("app.wasm")); const n = performance.getEntriesByType("navigation")[0]; return Object.assign({}, window.__ph, {wasmStart: w ? w.startTime : -1, goMain: (performance.getEntriesByName("alvea:main")[0] || {startTime: -1}).startTime, goMount: (performance.getEntriesByName("alvea:mount")[0] || {startTime: -1}).startTime, wasmFetches: performance.getEntriesByType("resource").filter(e => e.name.endsWith("app.wasm")).length, early: window.alveaWasm === null ? 1 : 0, cs: window.__ph.cs || -1, wasmEnd: w ? w.responseEnd : -1, dcl: n.domContentLoadedEventEnd, loaderGone: window.__benchLoaderGone, mounted: window.__benchMounted || -1, workerStart: n.workerStart, navRespStart: n.responseStart, navRespEnd: n.responseEnd, domInteractive: n.domInteractive}, Object.fromEntries(performance.getEntriesByType("resource").filter(e => !e.name.endsWith("app.wasm")).map(e => [e.name.replace(/^.*\//, "") + "@", Math.round(e.startTime) * 1000 + Math.round(e.responseEnd)]))); })()`)
+		ph, _ := evalJS[map[string]float64](c, phasesJS)
 		fmt.Printf("%s warm %.0f %v\n", p.Name, ms, ph)
 		time.Sleep(wait)
 	}
