@@ -16,11 +16,14 @@ import (
 // Rendering is split so that a keystroke redraws little: each numeric
 // field is its own component (briefNum), and a keystroke that changes no
 // field's message redraws no part of the form — neither the Brief nor the
-// frame above it — only the result panel (briefState.typed). In the panel,
-// each figure, each leg and the slower-changing parts are components keyed
-// by the text they show, so the unchanged ones are passed over. An edit
-// that changes the form's shape or a message redraws the Brief; its cards
-// redraw when their Rev or messages changed.
+// frame above it — only the result panel (briefState.typed). When the
+// plan's shape is the one on screen, its texts are written straight into
+// the panel and go-app draws nothing (the direct path, brief_result.go).
+// Otherwise, in the panel, each figure, each leg and the slower-changing
+// parts are components keyed by the text they show, so the unchanged
+// ones are passed over. An edit that changes the form's shape or a
+// message redraws the Brief; its cards redraw when their Rev or messages
+// changed.
 type brief struct {
 	app.Compo
 
@@ -56,6 +59,19 @@ type briefState struct {
 	mounted, resultUp   bool
 	shownMsgs           string
 	setters             map[string]func(Entry) // numeric field id → where it writes
+
+	// The direct path (brief_result.go): panel is the packed panel,
+	// reused; caps the places the panel keeps for its lists; shownShape
+	// the shape of the panel on screen (empty: not
+	// known); direct reports that the last recompute is on screen in
+	// full already. writeTexts, when set, replaces the page script
+	// (tests).
+	panel      panelPack
+	caps       panelCaps
+	shownShape []byte
+	direct     bool
+	syncQueued bool
+	writeTexts func(packed string) bool
 }
 
 // saveDelay gathers a burst of keystrokes into one save of the draft.
@@ -197,10 +213,13 @@ func (b *brief) vaultChanged(ctx app.Context) {
 	}
 }
 
-// recompute reads the fields and, when all are valid, computes the plan.
+// recompute reads the fields and, when all are valid, computes the plan,
+// then writes the plan's texts into the result panel on screen (so the
+// screen holds the current plan whichever way the panel is updated).
 func (s *briefState) recompute() {
 	s.model = buildBrief(s.draft, s.settings)
 	s.rev++
+	s.direct = s.showPlan()
 }
 
 // changed is called after every edit: recompute now, save a moment later.
@@ -239,13 +258,18 @@ func (s *briefState) restructured(ctx app.Context) {
 // recomputed. go-app flags the field's component and every component
 // above it (its card, the Brief, the frame) for an update. When no field's
 // message changed, nothing of the form needs to redraw (the text is on
-// screen already), so those flags are taken back and the result panel is
-// flagged alone. Otherwise the whole Brief redraws.
+// screen already), so those flags are taken back. The result panel is
+// then flagged alone, unless recompute wrote the whole new plan into it
+// already (the direct path: same shape). Otherwise the whole Brief
+// redraws.
 func (s *briefState) typed(ctx app.Context) {
 	if !s.mounted || !s.resultUp || s.allMsgs() != s.shownMsgs {
 		return
 	}
 	ctx.PreventUpdate()
+	if s.direct {
+		return
+	}
 	brief := s.briefCtx
 	s.resultCtx.Dispatch(func(app.Context) { brief.PreventUpdate() })
 }

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"bytes"
 	"fmt"
 	"strconv"
 	"strings"
@@ -27,12 +28,21 @@ var statusText = map[string]string{
 }
 
 // OnMount and OnDismount keep the panel's context, so a keystroke can
-// flag the panel alone for an update (see briefState.typed).
-func (c *briefResult) OnMount(ctx app.Context) { c.s.resultCtx, c.s.resultUp = ctx, true }
-func (c *briefResult) OnDismount()             { c.s.resultUp = false }
+// flag the panel alone for an update, or write into it directly (see
+// briefState.typed); once the panel is on screen its texts are written
+// and its shape kept (afterRender).
+func (c *briefResult) OnMount(ctx app.Context) {
+	s := c.s
+	s.resultCtx, s.resultUp = ctx, true
+	s.shownShape, s.syncQueued = s.shownShape[:0], false
+	s.queueAfterRender()
+}
+
+func (c *briefResult) OnDismount() { c.s.resultUp = false }
 
 func (c *briefResult) Render() app.UI {
 	s := c.s
+	s.queueAfterRender()
 	m := s.model
 	body := []app.UI{app.H2().Class("alv-card-title").ID("b-result-title").Text("Plan")}
 	if !m.ok() {
@@ -49,13 +59,8 @@ func (s *briefState) fixList() app.UI {
 	items := make([]app.UI, 0, len(m.order)+len(m.other))
 	for _, id := range m.order {
 		id := id
-		where := m.labels[id]
-		text := m.msgs[id]
-		if where != "" {
-			text = where + ": " + text
-		}
 		items = append(items, app.Li().Body(
-			app.Button().Type("button").Class("b-fix-link").Text(text).
+			app.Button().ID("b-fix-"+id).Type("button").Class("b-fix-link").Text(fixText(m, id)).
 				OnClick(func(ctx app.Context, e app.Event) {
 					el := app.Window().GetElementByID(id)
 					if el.Truthy() {
@@ -64,57 +69,105 @@ func (s *briefState) fixList() app.UI {
 				}, app.EventScope("fix", id)),
 		))
 	}
-	for _, o := range m.other {
-		items = append(items, app.Li().Text(o))
+	for i, o := range m.other {
+		items = append(items, app.Li().ID("b-fix-other"+strconv.Itoa(i)).Text(o))
 	}
 	return app.Div().ID("b-fix").Class("b-fix").Body(
 		app.P().ID("b-status").Class("b-status").DataSet("status", "incomplete").Attr("role", "status").
-			Text(fmt.Sprintf("No plan yet: %d thing(s) to fix or fill in.", len(items))),
+			Text(fixStatus(len(items))),
 		app.P().Text("The plan appears when every field is valid. Tap an item to go to its field."),
 		app.Ul().Class("b-fix-list").Body(items...),
 	)
 }
 
+// fixText is the fix list's line for field id: where it is, and what to fix.
+func fixText(m *briefModel, id string) string {
+	if where := m.labels[id]; where != "" {
+		return where + ": " + m.msgs[id]
+	}
+	return m.msgs[id]
+}
+
+// fixStatus is the status line above a fix list of n items.
+func fixStatus(n int) string {
+	return "No plan yet: " + strconv.Itoa(n) + " thing(s) to fix or fill in."
+}
+
+// panelCaps is how many places the panel keeps for each of its lists (the
+// warnings, the cylinders, the assumptions, each leg's options): the most
+// it has drawn for this Brief. A list that shrinks keeps its places,
+// hidden and empty, so a keystroke that takes a warning away, or brings
+// it back, changes no element of the panel, only texts and attributes
+// (the direct path). A list that outgrows its places gives the panel a
+// new shape, drawn by go-app.
+type panelCaps struct {
+	warn, cyl, assume int
+	opts              []int // by leg
+}
+
+// grow makes room for the lists of r (when the panel is drawn).
+func (c *panelCaps) grow(r *physio.PlanResult) {
+	c.warn = max(c.warn, len(r.Warnings))
+	c.cyl = max(c.cyl, len(r.Cylinders))
+	c.assume = max(c.assume, len(r.Assumptions))
+	for len(c.opts) < len(r.Legs) {
+		c.opts = append(c.opts, 0)
+	}
+	for i, l := range r.Legs {
+		c.opts[i] = max(c.opts[i], len(l.Options))
+	}
+}
+
+// optsAt is the places kept for leg i's options.
+func (c *panelCaps) optsAt(i int) int {
+	if i < len(c.opts) {
+		return c.opts[i]
+	}
+	return 0
+}
+
+// hiddenAttr is the value of the hidden attribute: "true", or none.
+func hiddenAttr(hidden bool) string {
+	if hidden {
+		return "true"
+	}
+	return ""
+}
+
 func (s *briefState) summary(r *physio.PlanResult) []app.UI {
+	s.caps.grow(r)
+	caps := &s.caps
 	out := []app.UI{
 		app.P().ID("b-status").Class("b-status").DataSet("status", r.Status).Attr("role", "status").Text(statusText[r.Status]),
 	}
 	// Key figures.
-	figs := []app.UI{}
-	if r.CabinAltitudeFt != nil {
-		figs = append(figs, s.fig("b-r-cabin", "Cabin altitude", r.Explain["cabin_altitude_ft"]))
-	}
-	figs = append(figs,
-		s.fig("b-r-highest", "Highest altitude", r.Explain["highest_altitude_ft"]),
-		s.fig("b-r-fio2", "FiO2 needed (highest leg)", r.Explain["fio2_needed"]),
-		s.fig("b-r-need", "Oxygen needed with reserve", r.Explain["oxygen_needed_l"]),
-		s.fig("b-r-usable", "Usable oxygen on board", r.Explain["oxygen_usable_l"]),
-		s.fig("b-r-margin", "Margin", r.Explain["oxygen_margin_l"]),
-		s.fig("b-r-calc", "Oxygen for the legs (no reserve)", r.Explain["oxygen_calculated_l"]),
-		s.fig("b-r-maxcabin", "FiO2 1.0 holds the ground state up to", r.Explain["max_cabin_altitude_ft"]),
-	)
-	if r.MaxCruiseAltitudeFt != nil {
-		label := "Highest cruise for that cabin"
-		if r.MaxCruiseAtCeiling {
-			label += " (no limit below the model's ceiling)"
-		}
-		figs = append(figs, s.fig("b-r-maxcruise", label, r.Explain["max_cruise_altitude_ft"]))
-	}
-	if r.SupplyExhaustedMin != nil {
-		figs = append(figs, s.fig("b-r-exhausted", "Supply reaches the residual at minute", r.Explain["supply_exhausted_minute"]))
+	keys := s.keyFigs(r)
+	figs := make([]app.UI, 0, len(keys))
+	for _, f := range keys {
+		figs = append(figs, s.fig(f))
 	}
 	out = append(out, app.Div().Class("b-figs b-key").Body(figs...))
 
 	// Warnings.
-	if len(r.Warnings) > 0 {
-		items := make([]app.UI, 0, len(r.Warnings))
-		for _, w := range r.Warnings {
-			items = append(items, app.Li().Class("b-warn").DataSet("severity", w.Severity).DataSet("code", w.Code).Body(
-				app.Span().Class("b-sev").Text(severityText(w.Severity)),
-				app.Text(" "+w.Message),
+	if caps.warn > 0 {
+		items := make([]app.UI, 0, caps.warn)
+		for i := 0; i < caps.warn; i++ {
+			w := warnSlot(r, i)
+			li := app.Li().ID(w.id).Class("b-warn").DataSet("severity", w.severity).DataSet("code", w.code)
+			if w.gone {
+				li = li.Hidden(true)
+			}
+			items = append(items, li.Body(
+				app.Span().ID(w.id+"-sev").Class("b-sev").Text(w.sevText),
+				app.Span().ID(w.id+"-msg").Text(w.msg),
 			))
 		}
-		out = append(out, app.H3().Text("Warnings"), app.Ul().ID("b-warnings").Class("b-warnings").Body(items...))
+		title := app.H3().ID("b-warn-title").Text("Warnings")
+		list := app.Ul().ID("b-warnings").Class("b-warnings")
+		if len(r.Warnings) == 0 {
+			title, list = title.Hidden(true), list.Hidden(true)
+		}
+		out = append(out, title, list.Body(items...))
 	}
 
 	// Legs.
@@ -128,17 +181,27 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 	out = append(out, &briefPart{Name: partGround, Key: s.partKey(partGround, r), s: s})
 
 	// Cylinders.
-	if len(r.Cylinders) > 0 {
-		rows := make([]app.UI, 0, len(r.Cylinders))
-		for _, cy := range r.Cylinders {
-			rows = append(rows, app.Tr().Body(
-				app.Th().Scope("row").Text(fmt.Sprintf("%d. %s", cy.Order, cy.Name)),
-				app.Td().Class("alv-num-cell").Body(s.inline(fmt.Sprintf("b-r-cyl%d-usable", cy.Order), "usable", cy.Explain["usable_l"])),
-				app.Td().Class("alv-num-cell").Text(minuteText(cy.StartMinute)),
-				app.Td().Class("alv-num-cell").Text(changeText(cy, r)),
+	if caps.cyl > 0 {
+		rows := make([]app.UI, 0, caps.cyl)
+		for k := 0; k < caps.cyl; k++ {
+			c := cylSlot(r, k)
+			tr := app.Tr().ID(c.id)
+			if c.usable.gone {
+				tr = tr.Hidden(true)
+			}
+			rows = append(rows, tr.Body(
+				app.Th().ID(c.id+"-name").Scope("row").Text(c.name),
+				app.Td().Class("alv-num-cell").Body(s.inline(c.usable)),
+				app.Td().ID(c.id+"-open").Class("alv-num-cell").Text(c.opened),
+				app.Td().ID(c.id+"-change").Class("alv-num-cell").Text(c.change),
 			))
 		}
-		out = append(out, app.H3().Text("Cylinders in order of use"), app.Table().Class("alv-table b-cyl-table").Body(
+		title := app.H3().ID("b-cyl-title").Text("Cylinders in order of use")
+		table := app.Table().ID("b-cyl-table").Class("alv-table b-cyl-table")
+		if len(r.Cylinders) == 0 {
+			title, table = title.Hidden(true), table.Hidden(true)
+		}
+		out = append(out, title, table.Body(
 			app.THead().Body(app.Tr().Body(
 				app.Th().Scope("col").Text("Cylinder"), app.Th().Scope("col").Text("Usable"),
 				app.Th().Scope("col").Text("Opened"), app.Th().Scope("col").Text("At the residual"),
@@ -152,8 +215,82 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 		&briefPart{Name: partGas, Key: s.partKey(partGas, r), s: s},
 		&briefPart{Name: partAssume, Key: s.partKey(partAssume, r), s: s},
 	)
-	out = append(out, app.P().Class("alv-note b-plan-caution").Text(r.Caution))
+	out = append(out, app.P().ID("b-r-caution").Class("alv-note b-plan-caution").Text(r.Caution))
 	return out
+}
+
+// partFig is one figure of the panel: its id, label and figure; gone when
+// the plan has no such figure (its place is kept, hidden and empty).
+type partFig struct {
+	id, label string
+	f         physio.Figure
+	gone      bool
+}
+
+// explained is the figure key of explain as a partFig, gone when absent.
+func explained(id, label string, explain map[string]physio.Figure, key string) partFig {
+	f, ok := explain[key]
+	return partFig{id: id, label: label, f: f, gone: !ok}
+}
+
+// keyFigs is the panel's key figures, in order.
+func (s *briefState) keyFigs(r *physio.PlanResult) []partFig {
+	cruise := "Highest cruise for that cabin"
+	if r.MaxCruiseAtCeiling {
+		cruise += " (no limit below the model's ceiling)"
+	}
+	out := []partFig{
+		explained("b-r-cabin", "Cabin altitude", r.Explain, "cabin_altitude_ft"),
+		explained("b-r-highest", "Highest altitude", r.Explain, "highest_altitude_ft"),
+		explained("b-r-fio2", "FiO2 needed (highest leg)", r.Explain, "fio2_needed"),
+		explained("b-r-need", "Oxygen needed with reserve", r.Explain, "oxygen_needed_l"),
+		explained("b-r-usable", "Usable oxygen on board", r.Explain, "oxygen_usable_l"),
+		explained("b-r-margin", "Margin", r.Explain, "oxygen_margin_l"),
+		explained("b-r-calc", "Oxygen for the legs (no reserve)", r.Explain, "oxygen_calculated_l"),
+		explained("b-r-maxcabin", "FiO2 1.0 holds the ground state up to", r.Explain, "max_cabin_altitude_ft"),
+		explained("b-r-maxcruise", cruise, r.Explain, "max_cruise_altitude_ft"),
+		explained("b-r-exhausted", "Supply reaches the residual at minute", r.Explain, "supply_exhausted_minute"),
+	}
+	// The result's own fields say which figures it has.
+	out[0].gone = r.CabinAltitudeFt == nil
+	out[8].gone = r.MaxCruiseAltitudeFt == nil
+	out[9].gone = r.SupplyExhaustedMin == nil
+	return out
+}
+
+// warnRow is the i-th place of the warnings list as shown.
+type warnRow struct {
+	id, severity, code, sevText, msg string
+	gone                             bool
+}
+
+func warnSlot(r *physio.PlanResult, i int) warnRow {
+	id := "b-warn" + strconv.Itoa(i)
+	if i >= len(r.Warnings) {
+		return warnRow{id: id, gone: true}
+	}
+	w := r.Warnings[i]
+	return warnRow{id: id, severity: w.Severity, code: w.Code, sevText: severityText(w.Severity), msg: " " + w.Message}
+}
+
+// cylRow is the k-th place of the cylinders table as shown.
+type cylRow struct {
+	id, name, opened, change string
+	usable                   partFig
+}
+
+func cylSlot(r *physio.PlanResult, k int) cylRow {
+	id := "b-r-cyl" + strconv.Itoa(k+1)
+	if k >= len(r.Cylinders) {
+		return cylRow{id: id, usable: partFig{id: id + "-usable", label: "usable", gone: true}}
+	}
+	cy := r.Cylinders[k]
+	return cylRow{id: id, name: cylName(cy), opened: minuteText(cy.StartMinute), change: changeText(cy, r),
+		usable: explained(id+"-usable", "usable", cy.Explain, "usable_l")}
+}
+
+func cylName(cy physio.PlanCylinderResult) string {
+	return strconv.Itoa(cy.Order) + ". " + cy.Name
 }
 
 // Parts of the result panel that one keystroke seldom changes.
@@ -182,26 +319,34 @@ func (c *briefPart) Render() app.UI {
 	case partGround:
 		figs := make([]app.UI, 0, 7)
 		for _, f := range s.partFigs(partGround, r) {
-			figs = append(figs, s.fig(f.id, f.label, f.f))
+			figs = append(figs, s.fig(f))
 		}
-		body = append(body, app.H3().Text("Patient on the ground ("+r.Ground.MeasuredAt+")"), app.Div().Class("b-figs").Body(figs...))
+		body = append(body, app.H3().ID("b-r-g-title").Text(groundTitle(r)), app.Div().Class("b-figs").Body(figs...))
 	case partGas:
 		figs := make([]app.UI, 0, 4)
 		for _, f := range s.partFigs(partGas, r) {
-			figs = append(figs, s.fig(f.id, f.label, f.f))
+			figs = append(figs, s.fig(f))
 		}
 		body = append(body, app.H3().Text("Trapped gas, origin to highest altitude"),
 			app.Div().Class("b-figs").Body(figs...),
-			app.P().Class("alv-note").Text(r.TrappedGas.Caution),
+			app.P().ID("b-r-tg-caution").Class("alv-note").Text(r.TrappedGas.Caution),
 		)
 	case partAssume:
-		if len(r.Assumptions) > 0 {
-			items := make([]app.UI, 0, len(r.Assumptions))
-			for _, a := range r.Assumptions {
-				items = append(items, app.Li().Text(a.Path+" = "+a.Value+": "+a.Reason))
+		if n := s.caps.assume; n > 0 {
+			items := make([]app.UI, 0, n)
+			for i := 0; i < n; i++ {
+				li := app.Li().ID("b-r-assume" + strconv.Itoa(i)).Text(assumptionAt(r, i))
+				if i >= len(r.Assumptions) {
+					li = li.Hidden(true)
+				}
+				items = append(items, li)
 			}
-			body = append(body, app.Details().Class("alv-how b-assume").Body(
-				app.Summary().Text("Defaults and method assumptions ("+strconv.Itoa(len(items))+")"),
+			d := app.Details().ID("b-r-assumptions").Class("alv-how b-assume")
+			if len(r.Assumptions) == 0 {
+				d = d.Hidden(true)
+			}
+			body = append(body, d.Body(
+				app.Summary().ID("b-r-assume-sum").Text(assumptionsTitle(len(r.Assumptions))),
 				app.Ul().Body(items...),
 			))
 		}
@@ -209,44 +354,58 @@ func (c *briefPart) Render() app.UI {
 	return app.Div().Class("b-part").Body(body...)
 }
 
-// partFig is one figure of a part: its id, label and figure.
-type partFig struct {
-	id, label string
-	f         physio.Figure
+func groundTitle(r *physio.PlanResult) string {
+	return "Patient on the ground (" + r.Ground.MeasuredAt + ")"
+}
+
+// assumptionAt is the i-th assumption as listed, "" past the last.
+func assumptionAt(r *physio.PlanResult, i int) string {
+	if i >= len(r.Assumptions) {
+		return ""
+	}
+	a := r.Assumptions[i]
+	return a.Path + " = " + a.Value + ": " + a.Reason
+}
+
+func assumptionsTitle(n int) string {
+	return "Defaults and method assumptions (" + strconv.Itoa(n) + ")"
 }
 
 func (s *briefState) partFigs(name string, r *physio.PlanResult) []partFig {
 	switch name {
 	case partGround:
-		g := r.Ground
-		out := []partFig{{"b-r-g-pao2a", "PAO2 (alveolar)", g.Explain["pao2_alveolar_mmhg"]}}
-		if f, ok := g.Explain["pao2_arterial_mmhg"]; ok {
-			out = append(out, partFig{"b-r-g-pao2", "PaO2 from SpO2", f})
+		g := r.Ground.Explain
+		return []partFig{
+			explained("b-r-g-pao2a", "PAO2 (alveolar)", g, "pao2_alveolar_mmhg"),
+			explained("b-r-g-pao2", "PaO2 from SpO2", g, "pao2_arterial_mmhg"),
+			explained("b-r-g-spo2", "SpO2 from PaO2", g, "spo2_percent"),
+			explained("b-r-g-aa", "a/A ratio", g, "aa_ratio"),
+			explained("b-r-g-grad", "A-a gradient", g, "aa_gradient_mmhg"),
+			explained("b-r-g-gradexp", "Upper normal A-a gradient for age", g, "expected_aa_gradient_mmhg"),
+			explained("b-r-g-cao2", "Oxygen content", g, "cao2_ml_dl"),
 		}
-		if f, ok := g.Explain["spo2_percent"]; ok {
-			out = append(out, partFig{"b-r-g-spo2", "SpO2 from PaO2", f})
-		}
-		out = append(out,
-			partFig{"b-r-g-aa", "a/A ratio", g.Explain["aa_ratio"]},
-			partFig{"b-r-g-grad", "A-a gradient", g.Explain["aa_gradient_mmhg"]},
-		)
-		if f, ok := g.Explain["expected_aa_gradient_mmhg"]; ok {
-			out = append(out, partFig{"b-r-g-gradexp", "Upper normal A-a gradient for age", f})
-		}
-		if f, ok := g.Explain["cao2_ml_dl"]; ok {
-			out = append(out, partFig{"b-r-g-cao2", "Oxygen content", f})
-		}
-		return out
 	case partGas:
 		tg := r.TrappedGas
 		return []partFig{
-			{"b-r-tg-ratio", "Expansion ratio", tg.Explain["ratio"]},
-			{"b-r-tg-cuff", "A " + tg.CuffMl.String() + " mL air pocket becomes", tg.Explain["cuff_at_altitude_ml"]},
-			{"b-r-tg-ptx", "A " + tg.PneumothoraxMl.String() + " mL pneumothorax becomes", tg.Explain["pneumothorax_at_altitude_ml"]},
-			{"b-r-tg-rigid", "Sealed rigid space: overpressure up to", tg.Explain["rigid_overpressure_cmh2o"]},
+			explained("b-r-tg-ratio", "Expansion ratio", tg.Explain, "ratio"),
+			explained("b-r-tg-cuff", "A "+tg.CuffMl.String()+" mL air pocket becomes", tg.Explain, "cuff_at_altitude_ml"),
+			explained("b-r-tg-ptx", "A "+tg.PneumothoraxMl.String()+" mL pneumothorax becomes", tg.Explain, "pneumothorax_at_altitude_ml"),
+			explained("b-r-tg-rigid", "Sealed rigid space: overpressure up to", tg.Explain, "rigid_overpressure_cmh2o"),
 		}
 	}
 	return nil
+}
+
+// figKey writes out what a figure shows, for the key of its part.
+func (s *briefState) figKey(b *strings.Builder, f partFig) {
+	num, unit, note := s.figTexts(f)
+	b.WriteString("|" + f.id + " " + f.label + " " + num + " " + unit + " " + note)
+	switch {
+	case f.gone:
+		b.WriteString(" gone")
+	case s.open[f.id+"-how"]:
+		b.WriteString(" open " + strconv.Itoa(s.rev)) // an open "How" shows the inputs: redraw
+	}
 }
 
 // partKey writes out everything a part shows.
@@ -258,17 +417,14 @@ func (s *briefState) partKey(name string, r *physio.PlanResult) string {
 	case partGas:
 		b.WriteString(r.TrappedGas.Caution)
 	case partAssume:
+		b.WriteString(strconv.Itoa(max(s.caps.assume, len(r.Assumptions))))
 		for _, a := range r.Assumptions {
-			b.WriteString(a.Path + "=" + a.Value + ":" + a.Reason + "|")
+			b.WriteString("|" + a.Path + "=" + a.Value + ":" + a.Reason)
 		}
 		return b.String()
 	}
 	for _, f := range s.partFigs(name, r) {
-		num, unit, note := s.shownFigure(f.f)
-		b.WriteString("|" + f.id + " " + f.label + " " + num + " " + unit + " " + note)
-		if s.open[f.id+"-how"] {
-			b.WriteString(" open " + strconv.Itoa(s.rev)) // an open "How" shows the inputs: redraw
-		}
+		s.figKey(&b, f)
 	}
 	return b.String()
 }
@@ -306,6 +462,17 @@ var legFigs = []legFig{
 	{"spo2", "SpO2 expected", "spo2_expected_percent"},
 	{"lpm", "Oxygen flow", "oxygen_lpm"},
 	{"litres", "Oxygen for the leg", "oxygen_l"},
+	{"cao2", "Oxygen content expected", "cao2_expected_ml_dl"},
+}
+
+// legPartFigs is the figures of leg i's result, in order.
+func legPartFigs(i int, l physio.PlanLegResult) []partFig {
+	pre := legResultID(i, "")
+	out := make([]partFig, len(legFigs))
+	for k, lf := range legFigs {
+		out[k] = explained(pre+lf.what, lf.label, l.Explain, lf.key)
+	}
+	return out
 }
 
 // legTitle is the heading of a leg's result.
@@ -315,37 +482,18 @@ func legTitle(i int, l physio.PlanLegResult) string {
 
 // legKey writes out everything the leg's result shows: its title, each
 // figure as shown (number, unit, note, "How" open), the verdict and the
-// options.
+// options with the places kept for them.
 func (s *briefState) legKey(i int, l physio.PlanLegResult) string {
 	var b strings.Builder
 	b.WriteString(legTitle(i, l))
-	pre := legResultID(i, "")
-	fig := func(what, key string) {
-		f, ok := l.Explain[key]
-		if !ok {
-			b.WriteString("|-")
-			return
-		}
-		num, unit, note := s.shownFigure(f)
-		b.WriteByte('|')
-		b.WriteString(num)
-		b.WriteByte(' ')
-		b.WriteString(unit)
-		b.WriteByte(' ')
-		b.WriteString(note)
-		if s.open[pre+what+"-how"] {
-			b.WriteString(" open ")
-			b.WriteString(strconv.Itoa(s.rev)) // an open "How" shows the inputs: redraw
-		}
+	for _, f := range legPartFigs(i, l) {
+		s.figKey(&b, f)
 	}
-	for _, lf := range legFigs {
-		fig(lf.what, lf.key)
-	}
-	fig("cao2", "cao2_expected_ml_dl")
 	b.WriteString("|")
 	b.WriteString(strconv.FormatBool(l.FiO2Possible))
 	b.WriteString(strconv.FormatBool(l.Delivers))
-	b.WriteString(l.FiO2Needed.String())
+	b.WriteString(optionsTitle(l))
+	b.WriteString(strconv.Itoa(s.caps.optsAt(i)))
 	for _, o := range l.Options {
 		b.WriteByte('|')
 		b.WriteString(optionText(o))
@@ -357,38 +505,58 @@ func legResultID(i int, what string) string { return "b-r-leg" + strconv.Itoa(i)
 
 func (s *briefState) legResult(i int, l physio.PlanLegResult) app.UI {
 	id := func(what string) string { return legResultID(i, what) }
-	title := legTitle(i, l)
-	figs := make([]app.UI, 0, len(legFigs)+1)
-	for _, lf := range legFigs {
-		figs = append(figs, s.fig(id(lf.what), lf.label, l.Explain[lf.key]))
+	lf := legPartFigs(i, l)
+	figs := make([]app.UI, 0, len(lf))
+	for _, f := range lf {
+		figs = append(figs, s.fig(f))
 	}
-	if f, ok := l.Explain["cao2_expected_ml_dl"]; ok {
-		figs = append(figs, s.fig(id("cao2"), "Oxygen content expected", f))
-	}
-	verdict := "The set-up covers the FiO2 needed."
-	cls := "b-verdict b-ok"
-	switch {
-	case !l.FiO2Possible:
-		verdict, cls = "Even FiO2 1.0 cannot hold the ground state on this leg.", "b-verdict b-bad"
-	case !l.Delivers:
-		verdict, cls = "The set-up may deliver less FiO2 than needed.", "b-verdict b-bad"
-	}
+	verdict, cls := legVerdict(l)
 	body := []app.UI{
-		app.H4().Class("b-leg-title").Text(title),
+		app.H4().ID(id("title")).Class("b-leg-title").Text(legTitle(i, l)),
 		app.Div().Class("b-figs b-small").Body(figs...),
 		app.P().ID(id("verdict")).Class(cls).Text(verdict),
 	}
-	if len(l.Options) > 0 {
-		opts := make([]app.UI, 0, len(l.Options))
-		for _, o := range l.Options {
-			opts = append(opts, app.Li().Text(optionText(o)))
+	if n := s.caps.optsAt(i); n > 0 {
+		opts := make([]app.UI, 0, n)
+		for j := 0; j < n; j++ {
+			li := app.Li().ID(id("opt" + strconv.Itoa(j))).Text(optionAt(l, j))
+			if j >= len(l.Options) {
+				li = li.Hidden(true)
+			}
+			opts = append(opts, li)
 		}
-		body = append(body,
-			app.P().Class("b-options-title").Text("Options that would deliver FiO2 "+l.FiO2Needed.String()+" — options, not orders; local protocol and medical direction decide:"),
-			app.Ul().ID(id("options")).Class("b-options").Body(opts...),
-		)
+		title := app.P().ID(id("optitle")).Class("b-options-title").Text(optionsTitle(l))
+		list := app.Ul().ID(id("options")).Class("b-options")
+		if len(l.Options) == 0 {
+			title, list = title.Hidden(true), list.Hidden(true)
+		}
+		body = append(body, title, list.Body(opts...))
 	}
 	return app.Div().Class("b-leg-result").ID(id("box")).Body(body...)
+}
+
+// legVerdict is a leg's verdict line and its classes.
+func legVerdict(l physio.PlanLegResult) (text, class string) {
+	switch {
+	case !l.FiO2Possible:
+		return "Even FiO2 1.0 cannot hold the ground state on this leg.", "b-verdict b-bad"
+	case !l.Delivers:
+		return "The set-up may deliver less FiO2 than needed.", "b-verdict b-bad"
+	}
+	return "The set-up covers the FiO2 needed.", "b-verdict b-ok"
+}
+
+// optionsTitle introduces a leg's options.
+func optionsTitle(l physio.PlanLegResult) string {
+	return "Options that would deliver FiO2 " + l.FiO2Needed.String() + " — options, not orders; local protocol and medical direction decide:"
+}
+
+// optionAt is the j-th option of the leg as listed, "" past the last.
+func optionAt(l physio.PlanLegResult, j int) string {
+	if j >= len(l.Options) {
+		return ""
+	}
+	return optionText(l.Options[j])
 }
 
 func optionText(o physio.PlanOption) string {
@@ -471,21 +639,27 @@ func roundingOf(s string) physio.Rounding {
 	return physio.RoundNearest
 }
 
-// fig renders one figure: label, large number, unit, and its "How".
-func (s *briefState) fig(id, label string, f physio.Figure) app.UI {
-	return s.figure(id, label, f, false)
+// figTexts is what a figure shows: its number, unit and conversion note
+// in the display units; nothing for a figure the plan does not have.
+func (s *briefState) figTexts(f partFig) (num, unit, note string) {
+	if f.gone {
+		return "", "", ""
+	}
+	return s.shownFigure(f.f)
 }
+
+// fig renders one figure: label, large number, unit, and its "How".
+func (s *briefState) fig(f partFig) app.UI { return s.figure(f, false) }
 
 // inline renders a figure inside a table cell.
-func (s *briefState) inline(id, label string, f physio.Figure) app.UI {
-	return s.figure(id, label, f, true)
-}
+func (s *briefState) inline(f partFig) app.UI { return s.figure(f, true) }
 
-func (s *briefState) figure(id, label string, f physio.Figure, inline bool) app.UI {
-	num, unit, note := s.shownFigure(f)
-	c := &briefFig{ID: id, Label: label, Num: num, Unit: unit, Note: note, Inline: inline, s: s}
-	if s.open[id+"-how"] {
-		c.How = &f
+func (s *briefState) figure(f partFig, inline bool) app.UI {
+	num, unit, note := s.figTexts(f)
+	c := &briefFig{ID: f.id, Label: f.label, Num: num, Unit: unit, Note: note, Inline: inline, Gone: f.gone, s: s}
+	if !f.gone && s.open[f.id+"-how"] {
+		how := f.f
+		c.How = &how
 	}
 	return c
 }
@@ -494,11 +668,12 @@ func (s *briefState) figure(id, label string, f physio.Figure, inline bool) app.
 // the plan is recomputed, a figure whose text is the same (most of them,
 // for one keystroke) is passed over after comparing a few strings. The
 // figure itself is kept only while its "How" is open (How), since only
-// then is it drawn.
+// then is it drawn. A figure the plan does not have (Gone) keeps its
+// place, hidden and empty.
 type briefFig struct {
 	app.Compo
 	ID, Label, Num, Unit, Note string
-	Inline                     bool
+	Inline, Gone               bool
 	How                        *physio.Figure
 	s                          *briefState
 }
@@ -508,16 +683,19 @@ func (c *briefFig) Render() app.UI {
 	if c.Inline {
 		return app.Div().ID(id).Body(
 			app.Span().ID(id+"-v").Class("b-cell-num").Text(c.Num),
-			app.Text(" "+c.Unit),
+			app.Span().ID(id+"-u").Text(" "+c.Unit),
 			s.how(id, c.Label, c.How, c.Note),
 		)
 	}
-	unit := c.Unit
-	return app.Div().Class("b-fig").ID(id).Body(
-		app.Span().Class("b-fig-label").Text(c.Label),
+	box := app.Div().Class("b-fig").ID(id)
+	if c.Gone {
+		box = box.Hidden(true)
+	}
+	return box.Body(
+		app.Span().ID(id+"-l").Class("b-fig-label").Text(c.Label),
 		app.Div().Class("alv-result").Body(
 			app.Span().ID(id+"-v").Class("alv-num").Text(c.Num),
-			app.If(unit != "", func() app.UI { return app.Span().ID(id + "-u").Class("alv-unit").Text(unit) }),
+			app.Span().ID(id+"-u").Class("alv-unit").Text(c.Unit),
 		),
 		s.how(id, c.Label, c.How, c.Note),
 	)
@@ -528,25 +706,24 @@ func (c *briefFig) Render() app.UI {
 func (s *briefState) how(id, label string, f *physio.Figure, note string) app.UI {
 	hid := id + "-how"
 	open := s.open[hid] && f != nil
-	body := []app.UI{app.Summary().Body(app.Text("How"), app.Span().Class("b-sr").Text(": "+label))}
+	body := []app.UI{app.Summary().Body(app.Text("How"), app.Span().ID(hid+"-sr").Class("b-sr").Text(": "+label))}
 	if open {
 		inputs := make([]app.UI, 0, len(f.Inputs))
-		for _, in := range f.Inputs {
-			t := in.Name + " = " + s.inputText(in)
-			inputs = append(inputs, app.Li().Text(t))
+		for k, in := range f.Inputs {
+			inputs = append(inputs, app.Li().ID(hid+"-in"+strconv.Itoa(k)).Text(s.inputLine(in)))
 		}
 		dl := []app.UI{
-			app.Dt().Text("Formula"), app.Dd().Class("b-formula").Text(f.Formula),
+			app.Dt().Text("Formula"), app.Dd().ID(hid + "-formula").Class("b-formula").Text(f.Formula),
 		}
 		if len(inputs) > 0 {
 			dl = append(dl, app.Dt().Text("Inputs"), app.Dd().Body(app.Ul().Body(inputs...)))
 		}
 		dl = append(dl,
-			app.Dt().Text("Source"), app.Dd().Text(f.Source),
-			app.Dt().Text("Rounding"), app.Dd().Text(roundingText(f.Rounding)),
+			app.Dt().Text("Source"), app.Dd().ID(hid+"-src").Text(f.Source),
+			app.Dt().Text("Rounding"), app.Dd().ID(hid+"-rnd").Text(roundingText(f.Rounding)),
 		)
 		if note != "" {
-			dl = append(dl, app.Dt().Text("Units"), app.Dd().Text(note))
+			dl = append(dl, app.Dt().Text("Units"), app.Dd().ID(hid+"-units").Text(note))
 		}
 		body = append(body, app.Dl().Class("b-how").Body(dl...))
 	}
@@ -560,6 +737,11 @@ func (s *briefState) how(id, label string, f *physio.Figure, note string) app.UI
 			s.open[hid] = now
 		}, app.EventScope(hid)).
 		Body(body...)
+}
+
+// inputLine is a figure's input as its "How" lists it.
+func (s *briefState) inputLine(in physio.FigureInput) string {
+	return in.Name + " = " + s.inputText(in)
 }
 
 // inputText writes a figure's input in the display units (to the nearest:
@@ -591,4 +773,268 @@ func roundingText(r string) string {
 		return "to the nearest; no decision rests on its last digit"
 	}
 	return strings.TrimSpace(r)
+}
+
+// ---- the direct path ----
+//
+// A keystroke that leaves the panel's shape as it is (the same figures,
+// legs, warnings, cylinders, open "How"s, or the same fix list) changes
+// only texts and a few attributes. Those are written straight into the
+// elements on screen, in the task of the keystroke, by one call to the
+// page script (window.alveaSetTexts in web/alvea.js); go-app's update of
+// the panel is then not needed (briefState.typed). go-app's copy of the
+// panel then holds older texts, so the texts are written after every
+// recompute (showPlan) and again after every render of the panel
+// (afterRender): whatever go-app writes or skips, the screen ends on the
+// current plan.
+
+// Separators of a packed panel. No text of the panel holds them (pack
+// reports one that does, and the panel then takes go-app's update).
+const (
+	packRec   = '\x1e' // between records
+	packField = '\x1f' // between the fields of a record
+)
+
+// panelPack is the result panel written out: one record per text or
+// attribute the plan decides, "id␟text" (the text of the element's only
+// child, a text node) or "id␟value␟attribute" (an empty value: no such
+// attribute); and the panel's shape, the ids and attribute names of those
+// records in order. Its buffers are reused from one keystroke to the next.
+type panelPack struct {
+	recs  []byte
+	shape []byte
+	bad   bool // a text holds a separator
+}
+
+func (p *panelPack) reset() {
+	p.recs, p.shape, p.bad = p.recs[:0], p.shape[:0], false
+}
+
+// text records the text of the element whose id is the parts of id joined.
+func (p *panelPack) text(value string, id ...string) { p.put("", value, id) }
+
+// attr records an attribute of the element whose id is the parts of id.
+func (p *panelPack) attr(name, value string, id ...string) { p.put(name, value, id) }
+
+func (p *panelPack) put(name, value string, id []string) {
+	if len(p.recs) > 0 {
+		p.recs = append(p.recs, packRec)
+	}
+	for _, part := range id {
+		p.recs = append(p.recs, part...)
+		p.shape = append(p.shape, part...)
+	}
+	p.shape = append(p.shape, ' ')
+	p.recs = append(p.recs, packField)
+	p.recs = append(p.recs, value...)
+	if name != "" {
+		p.recs = append(p.recs, packField)
+		p.recs = append(p.recs, name...)
+		p.shape = append(p.shape, name...)
+		p.shape = append(p.shape, ' ')
+	}
+	if strings.IndexByte(value, packRec) >= 0 || strings.IndexByte(value, packField) >= 0 {
+		p.bad = true
+	}
+}
+
+// pack writes out every text and attribute of the result panel that the
+// plan decides, by element id: what briefResult renders for the same
+// state (TestBriefPackMatchesRender checks both against each other). A
+// list that has outgrown its places (panelCaps) gets records for the
+// places it needs, so its shape differs from the panel's.
+func (s *briefState) pack(p *panelPack) {
+	p.reset()
+	m := s.model
+	if !m.ok() {
+		p.text(fixStatus(len(m.order)+len(m.other)), "b-status")
+		p.attr("data-status", "incomplete", "b-status")
+		for _, id := range m.order {
+			p.text(fixText(m, id), "b-fix-", id)
+		}
+		for i, o := range m.other {
+			p.text(o, "b-fix-other", strconv.Itoa(i))
+		}
+		return
+	}
+	r := m.result
+	caps := &s.caps
+	p.text(statusText[r.Status], "b-status")
+	p.attr("data-status", r.Status, "b-status")
+	for _, f := range s.keyFigs(r) {
+		s.packFig(p, f, false)
+	}
+	if n := max(caps.warn, len(r.Warnings)); n > 0 {
+		none := hiddenAttr(len(r.Warnings) == 0)
+		p.attr("hidden", none, "b-warn-title")
+		p.attr("hidden", none, "b-warnings")
+		for i := 0; i < n; i++ {
+			w := warnSlot(r, i)
+			p.attr("hidden", hiddenAttr(w.gone), w.id)
+			p.attr("data-severity", w.severity, w.id)
+			p.attr("data-code", w.code, w.id)
+			p.text(w.sevText, w.id, "-sev")
+			p.text(w.msg, w.id, "-msg")
+		}
+	}
+	for i, l := range r.Legs {
+		s.packLeg(p, i, l)
+	}
+	p.text(groundTitle(r), "b-r-g-title")
+	for _, f := range s.partFigs(partGround, r) {
+		s.packFig(p, f, false)
+	}
+	if n := max(caps.cyl, len(r.Cylinders)); n > 0 {
+		none := hiddenAttr(len(r.Cylinders) == 0)
+		p.attr("hidden", none, "b-cyl-title")
+		p.attr("hidden", none, "b-cyl-table")
+		for k := 0; k < n; k++ {
+			c := cylSlot(r, k)
+			p.attr("hidden", hiddenAttr(c.usable.gone), c.id)
+			p.text(c.name, c.id, "-name")
+			s.packFig(p, c.usable, true)
+			p.text(c.opened, c.id, "-open")
+			p.text(c.change, c.id, "-change")
+		}
+	}
+	for _, f := range s.partFigs(partGas, r) {
+		s.packFig(p, f, false)
+	}
+	p.text(r.TrappedGas.Caution, "b-r-tg-caution")
+	if n := max(caps.assume, len(r.Assumptions)); n > 0 {
+		p.attr("hidden", hiddenAttr(len(r.Assumptions) == 0), "b-r-assumptions")
+		p.text(assumptionsTitle(len(r.Assumptions)), "b-r-assume-sum")
+		for i := 0; i < n; i++ {
+			id := strconv.Itoa(i)
+			p.attr("hidden", hiddenAttr(i >= len(r.Assumptions)), "b-r-assume", id)
+			p.text(assumptionAt(r, i), "b-r-assume", id)
+		}
+	}
+	p.text(r.Caution, "b-r-caution")
+}
+
+// packLeg writes out one leg's result (legResult).
+func (s *briefState) packLeg(p *panelPack, i int, l physio.PlanLegResult) {
+	pre := legResultID(i, "")
+	p.text(legTitle(i, l), pre, "title")
+	for _, f := range legPartFigs(i, l) {
+		s.packFig(p, f, false)
+	}
+	verdict, cls := legVerdict(l)
+	p.text(verdict, pre, "verdict")
+	p.attr("class", cls, pre, "verdict")
+	if n := max(s.caps.optsAt(i), len(l.Options)); n > 0 {
+		none := hiddenAttr(len(l.Options) == 0)
+		p.attr("hidden", none, pre, "optitle")
+		p.text(optionsTitle(l), pre, "optitle")
+		p.attr("hidden", none, pre, "options")
+		for j := 0; j < n; j++ {
+			id := strconv.Itoa(j)
+			p.attr("hidden", hiddenAttr(j >= len(l.Options)), pre, "opt", id)
+			p.text(optionAt(l, j), pre, "opt", id)
+		}
+	}
+}
+
+// packFig writes out one figure (briefFig) and, while it is open, its "How".
+func (s *briefState) packFig(p *panelPack, f partFig, inline bool) {
+	id := f.id
+	num, unit, note := s.figTexts(f)
+	if inline {
+		p.text(num, id, "-v")
+		p.text(" "+unit, id, "-u")
+	} else {
+		p.attr("hidden", hiddenAttr(f.gone), id)
+		p.text(f.label, id, "-l")
+		p.text(num, id, "-v")
+		p.text(unit, id, "-u")
+	}
+	p.text(": "+f.label, id, "-how-sr")
+	if f.gone || !s.open[id+"-how"] {
+		return
+	}
+	p.text(f.f.Formula, id, "-how-formula")
+	for k, in := range f.f.Inputs {
+		p.text(s.inputLine(in), id, "-how-in", strconv.Itoa(k))
+	}
+	p.text(f.f.Source, id, "-how-src")
+	p.text(roundingText(f.f.Rounding), id, "-how-rnd")
+	if note != "" {
+		p.text(note, id, "-how-units")
+	}
+}
+
+// showPlan writes the current plan's texts into the result panel on
+// screen, and reports whether that was the whole update: the plan's shape
+// is the one on screen, and every element named took its text.
+func (s *briefState) showPlan() bool {
+	if !s.resultUp {
+		return false
+	}
+	p := &s.panel
+	s.pack(p)
+	if p.bad {
+		return false
+	}
+	written := s.writePanel(p.recs)
+	return written && bytes.Equal(p.shape, s.shownShape)
+}
+
+// afterRender runs once go-app has drawn the panel: it writes the current
+// texts again (go-app skips a text its copy already holds, and a node it
+// reuses for another figure can hold a text written directly), and keeps
+// the shape now on screen.
+func (s *briefState) afterRender(app.Context) {
+	s.syncQueued = false
+	s.shownShape = s.shownShape[:0]
+	if !s.resultUp {
+		return
+	}
+	p := &s.panel
+	s.pack(p)
+	if p.bad {
+		return
+	}
+	if !s.writePanel(p.recs) {
+		if app.IsClient || s.writeTexts != nil {
+			app.Log("brief: the result panel lacks an element the plan names; keystrokes take the full update")
+		}
+		return
+	}
+	s.shownShape = append(s.shownShape, p.shape...)
+}
+
+// queueAfterRender has afterRender run after the frame that draws the panel.
+func (s *briefState) queueAfterRender() {
+	if s.resultUp && !s.syncQueued {
+		s.syncQueued = true
+		s.resultCtx.Defer(s.afterRender)
+	}
+}
+
+// writePanel hands the packed panel to the page.
+func (s *briefState) writePanel(recs []byte) bool {
+	if s.writeTexts != nil {
+		return s.writeTexts(string(recs))
+	}
+	return setPanelTexts(recs)
+}
+
+// panelSetter is window.alveaSetTexts, once found.
+var panelSetter app.Value
+
+// setPanelTexts calls window.alveaSetTexts (web/alvea.js) with the packed
+// panel. Natively, or before the script has run, it reports false.
+func setPanelTexts(recs []byte) bool {
+	if !app.IsClient || len(recs) == 0 {
+		return false
+	}
+	if panelSetter == nil {
+		f := app.Window().Get("alveaSetTexts")
+		if f.Type() != app.TypeFunction {
+			return false
+		}
+		panelSetter = f
+	}
+	return panelSetter.Invoke(string(recs)).Bool()
 }
