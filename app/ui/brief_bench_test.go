@@ -49,3 +49,49 @@ func BenchmarkBriefRead(b *testing.B) {
 		s.recompute()
 	}
 }
+
+// BenchmarkBriefPack is writing out the result panel for the direct path
+// (the texts of every figure, warning and option), the plan computed.
+func BenchmarkBriefPack(b *testing.B) {
+	d := scenarioDraft()
+	s := newBriefWith(&memDraftStore{draft: &d}).s
+	s.draft = d
+	s.recompute()
+	if !s.model.ok() {
+		b.Fatal("the scenario did not compute")
+	}
+	var p panelPack
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		s.pack(&p)
+	}
+	b.ReportMetric(float64(len(p.recs)), "bytes/pack")
+}
+
+// BenchmarkBriefKeystrokeDirect is the Go work of one keystroke in the
+// cabin leg's minutes on the direct path, natively: the plan read and
+// computed again, the panel written out, and the records that changed
+// picked for the page (the page's own work is not in it).
+func BenchmarkBriefKeystrokeDirect(b *testing.B) {
+	d := scenarioDraft()
+	s := newBriefWith(&memDraftStore{draft: &d}).s
+	s.draft = d
+	sent := 0
+	s.writeTexts = func(packed string) bool { sent += len(packed); return true }
+	s.recompute()
+	app.HTMLString(&briefResult{Rev: s.rev, s: s}) // the panel drawn: its places kept
+	s.resultUp = true                              // as if on screen
+	s.afterRender(app.Context{})
+	sent = 0
+	values := []string{"120", "12", "125", "12", "126"}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		s.draft.Legs[1].Minutes = Entry{T: values[i%len(values)]}
+		s.recompute()
+		if !s.direct {
+			b.Fatal("the keystroke did not take the direct path")
+		}
+	}
+	b.ReportMetric(float64(sent)/float64(b.N), "bytes-sent/op")
+}

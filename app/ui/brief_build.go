@@ -3,6 +3,7 @@ package ui
 import (
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
 
 	"github.com/shopspring/decimal"
@@ -78,8 +79,8 @@ const (
 	fidLegsList    = "b-leg-list"
 )
 
-func legID(i int, what string) string    { return fmt.Sprintf("b-leg%d-%s", i, what) }
-func supplyID(i int, what string) string { return fmt.Sprintf("b-sup%d-%s", i, what) }
+func legID(i int, what string) string    { return "b-leg" + strconv.Itoa(i) + "-" + what }
+func supplyID(i int, what string) string { return "b-sup" + strconv.Itoa(i) + "-" + what }
 
 // builtInSizes are the CGA letter sizes offered in the Brief.
 var builtInSizes = []physio.CylinderSize{physio.SizeD, physio.SizeE, physio.SizeM, physio.SizeG, physio.SizeH}
@@ -117,8 +118,8 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 		m.fail(fidLegsList, "Legs", "Add at least one leg.")
 	}
 	for i, l := range d.Legs {
-		where := fmt.Sprintf("Leg %d", i+1)
-		p := fmt.Sprintf("legs[%d]", i)
+		where := "Leg " + strconv.Itoa(i+1)
+		p := "legs[" + strconv.Itoa(i) + "]"
 		leg := physio.PlanLeg{Where: l.Where}
 		m.paths[p+".where"] = legID(i, "where")
 		if l.Where != physio.WhereOrigin && l.Where != physio.WhereCabin && l.Where != physio.WhereDestination {
@@ -187,8 +188,8 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 	// Cylinders on board.
 	doc.Supply = []physio.PlanSupply{}
 	for i, s := range d.Supply {
-		where := fmt.Sprintf("Cylinders, line %d", i+1)
-		p := fmt.Sprintf("supply[%d]", i)
+		where := "Cylinders, line " + strconv.Itoa(i+1)
+		p := "supply[" + strconv.Itoa(i) + "]"
 		m.paths[p] = supplyID(i, "kind")
 		m.paths[p+".size"] = supplyID(i, "kind")
 		line := physio.PlanSupply{}

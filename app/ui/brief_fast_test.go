@@ -365,7 +365,8 @@ func TestBriefPackMatchesRender(t *testing.T) {
 	for _, from := range cases {
 		s := panelState(from)
 		raw := app.HTMLString(&briefResult{Rev: s.rev, s: s})
-		var p panelPack
+		var p, fromPack panelPack
+		s.pack(&fromPack)
 		s.pack(&p)
 		if p.bad {
 			t.Fatalf("%s: a text holds a separator", from.name)
@@ -399,6 +400,12 @@ func TestBriefPackMatchesRender(t *testing.T) {
 				t.Errorf("%s → %s: a record found no single text to write", from.name, to.name)
 				continue
 			}
+			// Only the records that changed, written into the first
+			// plan's rendering, give the same.
+			diffTree := parseHTML(t, raw)
+			if diff := p.changedSince(&fromPack, nil); len(diff) > 0 && !apply(diffTree, records(t, string(diff))) {
+				t.Errorf("%s → %s: a changed record found no single text to write", from.name, to.name)
+			}
 			// go-app's rendering of the second plan depends on the
 			// places kept, which the shape holds.
 			key := to.name + "\x00" + shape
@@ -411,6 +418,9 @@ func TestBriefPackMatchesRender(t *testing.T) {
 			}
 			if got := tree.String(); got != want {
 				t.Errorf("%s → %s: the panel written directly differs from the rendered one:\n%s", from.name, to.name, firstDiff(got, want))
+			}
+			if got := diffTree.String(); got != want {
+				t.Errorf("%s → %s: the changed records written differ from the rendered panel:\n%s", from.name, to.name, firstDiff(got, want))
 			}
 		}
 	}
@@ -478,9 +488,26 @@ func TestBriefDirectPath(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	rec := "b-r-leg1-litres-v\x1f" + want.Legs[1].OxygenL.String() + "\x1e"
-	if !strings.Contains(last, rec) {
-		t.Errorf("packed panel lacks %q (physio.ComputePlan for 125 min)", rec)
+	written := map[string]string{}
+	for _, r := range records(t, last) {
+		written[r.id+" "+r.attr] = r.value
+	}
+	if got := written["b-r-leg1-litres-v "]; got != want.Legs[1].OxygenL.String() {
+		t.Errorf("leg 2's oxygen written %q; physio.ComputePlan gives %s for 125 min", got, want.Legs[1].OxygenL)
+	}
+	// Only what changed is sent: the title of leg 1 (its minutes did not
+	// change) is not.
+	if _, sent := written["b-r-leg0-title "]; sent {
+		t.Error("an unchanged text was sent again")
+	}
+	if len(written) > 40 {
+		t.Errorf("%d records sent for one leg's minutes", len(written))
+	}
+	// The same plan again: nothing to send, still direct.
+	last = ""
+	s.recompute()
+	if !s.direct || last != "" {
+		t.Errorf("an unchanged plan: direct %v, sent %q", s.direct, last)
 	}
 
 	// A warning appears (the cylinder at the residual): another shape.
@@ -524,6 +551,9 @@ func TestBriefDirectPath(t *testing.T) {
 	key("129")
 	if s.direct {
 		t.Error("direct with no shape known on screen")
+	}
+	if !strings.Contains(last, "b-r-leg0-title\x1f") {
+		t.Error("after a refused write, the next one is not sent in full")
 	}
 	render()
 	if len(s.shownShape) == 0 {

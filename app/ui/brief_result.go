@@ -2,7 +2,6 @@ package ui
 
 import (
 	"bytes"
-	"fmt"
 	"strconv"
 	"strings"
 
@@ -141,7 +140,7 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 		app.P().ID("b-status").Class("b-status").DataSet("status", r.Status).Attr("role", "status").Text(statusText[r.Status]),
 	}
 	// Key figures.
-	keys := s.keyFigs(r)
+	keys := s.keyFigs(r, nil)
 	figs := make([]app.UI, 0, len(keys))
 	for _, f := range keys {
 		figs = append(figs, s.fig(f))
@@ -233,13 +232,13 @@ func explained(id, label string, explain map[string]physio.Figure, key string) p
 	return partFig{id: id, label: label, f: f, gone: !ok}
 }
 
-// keyFigs is the panel's key figures, in order.
-func (s *briefState) keyFigs(r *physio.PlanResult) []partFig {
+// keyFigs appends the panel's key figures, in order, to buf.
+func (s *briefState) keyFigs(r *physio.PlanResult, buf []partFig) []partFig {
 	cruise := "Highest cruise for that cabin"
 	if r.MaxCruiseAtCeiling {
 		cruise += " (no limit below the model's ceiling)"
 	}
-	out := []partFig{
+	out := append(buf,
 		explained("b-r-cabin", "Cabin altitude", r.Explain, "cabin_altitude_ft"),
 		explained("b-r-highest", "Highest altitude", r.Explain, "highest_altitude_ft"),
 		explained("b-r-fio2", "FiO2 needed (highest leg)", r.Explain, "fio2_needed"),
@@ -250,11 +249,12 @@ func (s *briefState) keyFigs(r *physio.PlanResult) []partFig {
 		explained("b-r-maxcabin", "FiO2 1.0 holds the ground state up to", r.Explain, "max_cabin_altitude_ft"),
 		explained("b-r-maxcruise", cruise, r.Explain, "max_cruise_altitude_ft"),
 		explained("b-r-exhausted", "Supply reaches the residual at minute", r.Explain, "supply_exhausted_minute"),
-	}
+	)
 	// The result's own fields say which figures it has.
-	out[0].gone = r.CabinAltitudeFt == nil
-	out[8].gone = r.MaxCruiseAltitudeFt == nil
-	out[9].gone = r.SupplyExhaustedMin == nil
+	keys := out[len(buf):]
+	keys[0].gone = r.CabinAltitudeFt == nil
+	keys[8].gone = r.MaxCruiseAltitudeFt == nil
+	keys[9].gone = r.SupplyExhaustedMin == nil
 	return out
 }
 
@@ -318,13 +318,13 @@ func (c *briefPart) Render() app.UI {
 	switch c.Name {
 	case partGround:
 		figs := make([]app.UI, 0, 7)
-		for _, f := range s.partFigs(partGround, r) {
+		for _, f := range s.partFigs(partGround, r, nil) {
 			figs = append(figs, s.fig(f))
 		}
 		body = append(body, app.H3().ID("b-r-g-title").Text(groundTitle(r)), app.Div().Class("b-figs").Body(figs...))
 	case partGas:
 		figs := make([]app.UI, 0, 4)
-		for _, f := range s.partFigs(partGas, r) {
+		for _, f := range s.partFigs(partGas, r, nil) {
 			figs = append(figs, s.fig(f))
 		}
 		body = append(body, app.H3().Text("Trapped gas, origin to highest altitude"),
@@ -371,11 +371,12 @@ func assumptionsTitle(n int) string {
 	return "Defaults and method assumptions (" + strconv.Itoa(n) + ")"
 }
 
-func (s *briefState) partFigs(name string, r *physio.PlanResult) []partFig {
+// partFigs appends the figures of a part, in order, to buf.
+func (s *briefState) partFigs(name string, r *physio.PlanResult, buf []partFig) []partFig {
 	switch name {
 	case partGround:
 		g := r.Ground.Explain
-		return []partFig{
+		return append(buf,
 			explained("b-r-g-pao2a", "PAO2 (alveolar)", g, "pao2_alveolar_mmhg"),
 			explained("b-r-g-pao2", "PaO2 from SpO2", g, "pao2_arterial_mmhg"),
 			explained("b-r-g-spo2", "SpO2 from PaO2", g, "spo2_percent"),
@@ -383,17 +384,17 @@ func (s *briefState) partFigs(name string, r *physio.PlanResult) []partFig {
 			explained("b-r-g-grad", "A-a gradient", g, "aa_gradient_mmhg"),
 			explained("b-r-g-gradexp", "Upper normal A-a gradient for age", g, "expected_aa_gradient_mmhg"),
 			explained("b-r-g-cao2", "Oxygen content", g, "cao2_ml_dl"),
-		}
+		)
 	case partGas:
 		tg := r.TrappedGas
-		return []partFig{
+		return append(buf,
 			explained("b-r-tg-ratio", "Expansion ratio", tg.Explain, "ratio"),
 			explained("b-r-tg-cuff", "A "+tg.CuffMl.String()+" mL air pocket becomes", tg.Explain, "cuff_at_altitude_ml"),
 			explained("b-r-tg-ptx", "A "+tg.PneumothoraxMl.String()+" mL pneumothorax becomes", tg.Explain, "pneumothorax_at_altitude_ml"),
 			explained("b-r-tg-rigid", "Sealed rigid space: overpressure up to", tg.Explain, "rigid_overpressure_cmh2o"),
-		}
+		)
 	}
-	return nil
+	return buf
 }
 
 // figKey writes out what a figure shows, for the key of its part.
@@ -423,7 +424,7 @@ func (s *briefState) partKey(name string, r *physio.PlanResult) string {
 		}
 		return b.String()
 	}
-	for _, f := range s.partFigs(name, r) {
+	for _, f := range s.partFigs(name, r, nil) {
 		s.figKey(&b, f)
 	}
 	return b.String()
@@ -465,14 +466,13 @@ var legFigs = []legFig{
 	{"cao2", "Oxygen content expected", "cao2_expected_ml_dl"},
 }
 
-// legPartFigs is the figures of leg i's result, in order.
-func legPartFigs(i int, l physio.PlanLegResult) []partFig {
+// legPartFigs appends the figures of leg i's result, in order, to buf.
+func legPartFigs(i int, l physio.PlanLegResult, buf []partFig) []partFig {
 	pre := legResultID(i, "")
-	out := make([]partFig, len(legFigs))
-	for k, lf := range legFigs {
-		out[k] = explained(pre+lf.what, lf.label, l.Explain, lf.key)
+	for _, lf := range legFigs {
+		buf = append(buf, explained(pre+lf.what, lf.label, l.Explain, lf.key))
 	}
-	return out
+	return buf
 }
 
 // legTitle is the heading of a leg's result.
@@ -486,7 +486,7 @@ func legTitle(i int, l physio.PlanLegResult) string {
 func (s *briefState) legKey(i int, l physio.PlanLegResult) string {
 	var b strings.Builder
 	b.WriteString(legTitle(i, l))
-	for _, f := range legPartFigs(i, l) {
+	for _, f := range legPartFigs(i, l, nil) {
 		s.figKey(&b, f)
 	}
 	b.WriteString("|")
@@ -505,7 +505,7 @@ func legResultID(i int, what string) string { return "b-r-leg" + strconv.Itoa(i)
 
 func (s *briefState) legResult(i int, l physio.PlanLegResult) app.UI {
 	id := func(what string) string { return legResultID(i, what) }
-	lf := legPartFigs(i, l)
+	lf := legPartFigs(i, l, nil)
 	figs := make([]app.UI, 0, len(lf))
 	for _, f := range lf {
 		figs = append(figs, s.fig(f))
@@ -564,9 +564,9 @@ func optionText(o physio.PlanOption) string {
 	if o.FiO2High.Cmp(o.FiO2Low.Decimal) != 0 {
 		fio2 += " to " + o.FiO2High.String()
 	}
-	t := fmt.Sprintf("%s at %s L/min oxygen", deviceName(o.Device), o.OxygenLpm)
+	t := deviceName(o.Device) + " at " + o.OxygenLpm.String() + " L/min oxygen"
 	if o.TotalLpm.Cmp(o.OxygenLpm.Decimal) != 0 {
-		t += fmt.Sprintf(", %s L/min total", o.TotalLpm)
+		t += ", " + o.TotalLpm.String() + " L/min total"
 	}
 	return t + " (FiO2 " + fio2 + ")"
 }
@@ -603,7 +603,7 @@ func changeText(cy physio.PlanCylinderResult, r *physio.PlanResult) string {
 	}
 	t := "minute " + cy.ChangeMinute.String()
 	if cy.ChangeLeg != nil && *cy.ChangeLeg >= 0 && *cy.ChangeLeg < len(r.Legs) {
-		t += fmt.Sprintf(" (leg %d)", *cy.ChangeLeg+1)
+		t += " (leg " + strconv.Itoa(*cy.ChangeLeg+1) + ")"
 	}
 	return t
 }
@@ -614,15 +614,13 @@ func changeText(cy physio.PlanCylinderResult, r *physio.PlanResult) string {
 // A converted number is rounded in the figure's own direction, so the
 // safe side holds after conversion too.
 func (s *briefState) shownFigure(f physio.Figure) (num, unit, note string) {
-	r := roundingOf(f.Rounding)
-	v := f.Value.InexactFloat64()
 	switch {
 	case f.Unit == "ft" && s.settings.AltitudeUnit == UnitM:
-		if d, ok := physio.Round(physio.Feet(v).Metres(), 0, r); ok {
+		if d, ok := physio.Round(physio.Feet(f.Value.InexactFloat64()).Metres(), 0, roundingOf(f.Rounding)); ok {
 			return d.String(), "m", "converted from " + f.Value.String() + " ft"
 		}
 	case f.Unit == "mmHg" && s.settings.GasUnit == UnitKPa:
-		if d, ok := physio.Round(physio.MmHg(v).Kilopascals(), 1, r); ok {
+		if d, ok := physio.Round(physio.MmHg(f.Value.InexactFloat64()).Kilopascals(), 1, roundingOf(f.Rounding)); ok {
 			return d.String(), "kPa", "converted from " + f.Value.String() + " mmHg"
 		}
 	}
@@ -803,39 +801,73 @@ const (
 type panelPack struct {
 	recs  []byte
 	shape []byte
-	bad   bool // a text holds a separator
+	offs  []int     // where each record starts in recs
+	figs  []partFig // the figures being written out (a buffer)
+	bad   bool      // a text holds a separator
 }
 
 func (p *panelPack) reset() {
-	p.recs, p.shape, p.bad = p.recs[:0], p.shape[:0], false
+	p.recs, p.shape, p.offs, p.bad = p.recs[:0], p.shape[:0], p.offs[:0], false
 }
 
 // text records the text of the element whose id is the parts of id joined.
-func (p *panelPack) text(value string, id ...string) { p.put("", value, id) }
+func (p *panelPack) text(value string, id ...string) { p.put("", value, "", id) }
+
+// text2 records a text made of two parts (no string is built for it).
+func (p *panelPack) text2(a, b string, id ...string) { p.put("", a, b, id) }
 
 // attr records an attribute of the element whose id is the parts of id.
-func (p *panelPack) attr(name, value string, id ...string) { p.put(name, value, id) }
+func (p *panelPack) attr(name, value string, id ...string) { p.put(name, value, "", id) }
 
-func (p *panelPack) put(name, value string, id []string) {
+func (p *panelPack) put(name, a, b string, id []string) {
 	if len(p.recs) > 0 {
 		p.recs = append(p.recs, packRec)
 	}
+	p.offs = append(p.offs, len(p.recs))
 	for _, part := range id {
 		p.recs = append(p.recs, part...)
 		p.shape = append(p.shape, part...)
 	}
 	p.shape = append(p.shape, ' ')
 	p.recs = append(p.recs, packField)
-	p.recs = append(p.recs, value...)
+	start := len(p.recs)
+	p.recs = append(p.recs, a...)
+	p.recs = append(p.recs, b...)
+	if bytes.IndexByte(p.recs[start:], packRec) >= 0 || bytes.IndexByte(p.recs[start:], packField) >= 0 {
+		p.bad = true
+	}
 	if name != "" {
 		p.recs = append(p.recs, packField)
 		p.recs = append(p.recs, name...)
 		p.shape = append(p.shape, name...)
 		p.shape = append(p.shape, ' ')
 	}
-	if strings.IndexByte(value, packRec) >= 0 || strings.IndexByte(value, packField) >= 0 {
-		p.bad = true
+}
+
+// record returns the i-th record.
+func (p *panelPack) record(i int) []byte {
+	end := len(p.recs)
+	if i+1 < len(p.offs) {
+		end = p.offs[i+1] - 1 // the separator before the next
 	}
+	return p.recs[p.offs[i]:end]
+}
+
+// changedSince writes into out the records of p that differ from those of
+// prev, a pack of the same shape, and returns them.
+func (p *panelPack) changedSince(prev *panelPack, out []byte) []byte {
+	out = out[:0]
+	for i := range p.offs {
+		r := p.record(i)
+		if bytes.Equal(r, prev.record(i)) {
+			continue
+		}
+		if len(out) > 0 {
+			out = append(out, packRec)
+		}
+		out = append(out, r...)
+	}
+	return out
 }
 
 // pack writes out every text and attribute of the result panel that the
@@ -861,7 +893,8 @@ func (s *briefState) pack(p *panelPack) {
 	caps := &s.caps
 	p.text(statusText[r.Status], "b-status")
 	p.attr("data-status", r.Status, "b-status")
-	for _, f := range s.keyFigs(r) {
+	p.figs = s.keyFigs(r, p.figs[:0])
+	for _, f := range p.figs {
 		s.packFig(p, f, false)
 	}
 	if n := max(caps.warn, len(r.Warnings)); n > 0 {
@@ -881,7 +914,8 @@ func (s *briefState) pack(p *panelPack) {
 		s.packLeg(p, i, l)
 	}
 	p.text(groundTitle(r), "b-r-g-title")
-	for _, f := range s.partFigs(partGround, r) {
+	p.figs = s.partFigs(partGround, r, p.figs[:0])
+	for _, f := range p.figs {
 		s.packFig(p, f, false)
 	}
 	if n := max(caps.cyl, len(r.Cylinders)); n > 0 {
@@ -897,7 +931,8 @@ func (s *briefState) pack(p *panelPack) {
 			p.text(c.change, c.id, "-change")
 		}
 	}
-	for _, f := range s.partFigs(partGas, r) {
+	p.figs = s.partFigs(partGas, r, p.figs[:0])
+	for _, f := range p.figs {
 		s.packFig(p, f, false)
 	}
 	p.text(r.TrappedGas.Caution, "b-r-tg-caution")
@@ -917,7 +952,8 @@ func (s *briefState) pack(p *panelPack) {
 func (s *briefState) packLeg(p *panelPack, i int, l physio.PlanLegResult) {
 	pre := legResultID(i, "")
 	p.text(legTitle(i, l), pre, "title")
-	for _, f := range legPartFigs(i, l) {
+	p.figs = legPartFigs(i, l, p.figs[:0])
+	for _, f := range p.figs {
 		s.packFig(p, f, false)
 	}
 	verdict, cls := legVerdict(l)
@@ -942,14 +978,14 @@ func (s *briefState) packFig(p *panelPack, f partFig, inline bool) {
 	num, unit, note := s.figTexts(f)
 	if inline {
 		p.text(num, id, "-v")
-		p.text(" "+unit, id, "-u")
+		p.text2(" ", unit, id, "-u")
 	} else {
 		p.attr("hidden", hiddenAttr(f.gone), id)
 		p.text(f.label, id, "-l")
 		p.text(num, id, "-v")
 		p.text(unit, id, "-u")
 	}
-	p.text(": "+f.label, id, "-how-sr")
+	p.text2(": ", f.label, id, "-how-sr")
 	if f.gone || !s.open[id+"-how"] {
 		return
 	}
@@ -966,7 +1002,10 @@ func (s *briefState) packFig(p *panelPack, f partFig, inline bool) {
 
 // showPlan writes the current plan's texts into the result panel on
 // screen, and reports whether that was the whole update: the plan's shape
-// is the one on screen, and every element named took its text.
+// is the one on screen, and every element named took its text. Only the
+// records that changed since the last write are sent when the shape is
+// the same; everything is sent after a change of shape, after a write the
+// page refused, and after every render (afterRender).
 func (s *briefState) showPlan() bool {
 	if !s.resultUp {
 		return false
@@ -974,19 +1013,27 @@ func (s *briefState) showPlan() bool {
 	p := &s.panel
 	s.pack(p)
 	if p.bad {
+		s.sentOK = false
 		return false
 	}
-	written := s.writePanel(p.recs)
-	return written && bytes.Equal(p.shape, s.shownShape)
+	recs := p.recs
+	if s.sentOK && bytes.Equal(p.shape, s.sent.shape) {
+		s.diff = p.changedSince(&s.sent, s.diff)
+		recs = s.diff
+	}
+	s.sentOK = len(recs) == 0 || s.writePanel(recs)
+	s.panel, s.sent = s.sent, s.panel
+	return s.sentOK && bytes.Equal(s.sent.shape, s.shownShape)
 }
 
-// afterRender runs once go-app has drawn the panel: it writes the current
-// texts again (go-app skips a text its copy already holds, and a node it
-// reuses for another figure can hold a text written directly), and keeps
-// the shape now on screen.
+// afterRender runs once go-app has drawn the panel: it writes every text
+// again (go-app skips a text its copy already holds, and a node it reuses
+// for another figure can hold a text written directly), and keeps the
+// shape now on screen.
 func (s *briefState) afterRender(app.Context) {
 	s.syncQueued = false
 	s.shownShape = s.shownShape[:0]
+	s.sentOK = false
 	if !s.resultUp {
 		return
 	}
@@ -1001,7 +1048,9 @@ func (s *briefState) afterRender(app.Context) {
 		}
 		return
 	}
-	s.shownShape = append(s.shownShape, p.shape...)
+	s.sentOK = true
+	s.panel, s.sent = s.sent, s.panel
+	s.shownShape = append(s.shownShape, s.sent.shape...)
 }
 
 // queueAfterRender has afterRender run after the frame that draws the panel.
