@@ -33,7 +33,7 @@ var statusText = map[string]string{
 func (c *briefResult) OnMount(ctx app.Context) {
 	s := c.s
 	s.resultCtx, s.resultUp = ctx, true
-	s.shownShape, s.syncQueued = s.shownShape[:0], false
+	s.shownShape, s.syncQueued, s.sentOK = s.shownShape[:0], false, false
 	s.queueAfterRender()
 }
 
@@ -1008,6 +1008,7 @@ func (s *briefState) packFig(p *panelPack, f partFig, inline bool) {
 // page refused, and after every render (afterRender).
 func (s *briefState) showPlan() bool {
 	if !s.resultUp {
+		s.sentOK = false // a panel drawn later holds texts never sent
 		return false
 	}
 	p := &s.panel
