@@ -30,13 +30,50 @@ import (
 // compiled code can be kept); on a first visit, through go-app's counting
 // fetch, for its progress label. Whatever fails early falls back to
 // loading app.wasm again the go-app way, which reports its own errors.
+//
+// On a first visit, app.js also waits for the app to start before it
+// registers the service worker (alveaRegisterWorker), so the worker's
+// precache does not compete with the first start.
 
 // loaderCall matches the call in go-app's app.js that the patch replaces;
 // its group is the URL of app.wasm.
 var loaderCall = regexp.MustCompile(`instantiateStreaming\(\s*fetchWithProgress\("([^"]+)", showProgress\),\s*go\.importObject\s*\)`)
 
-// loaderFunc is the function the patch adds.
+// workerCall is go-app's registration of the service worker, called as
+// app.js starts; the patch makes it wait for the app on a first visit.
+const workerCall = "\ngoappInitServiceWorker();\n"
+
+// loaderFunc holds the functions the patch adds.
 const loaderFunc = `
+// Alvea: on a first visit (no worker yet), registers the service worker
+// only once the app has started (the frame sets ` + readyAttr + ` on
+// <html>), so that its precache (every file of the app, app.wasm stored
+// once more) does not compete with the first start. A page the worker
+// already serves registers at once, as go-app does, and so checks for a
+// new version at every start. If the app has not started after 10 s the
+// worker is registered anyway, so the offline copy still comes.
+function alveaRegisterWorker(register) {
+  if (!("serviceWorker" in navigator) || navigator.serviceWorker.controller) {
+    register();
+    return;
+  }
+  let done = false;
+  const observer = new MutationObserver(() => {
+    if (document.documentElement.getAttribute("` + readyAttr + `") === "wasm") {
+      go();
+    }
+  });
+  const go = () => {
+    if (!done) {
+      done = true;
+      observer.disconnect();
+      register();
+    }
+  };
+  observer.observe(document.documentElement, { attributes: true, attributeFilter: ["` + readyAttr + `"] });
+  setTimeout(go, 10000);
+}
+
 // Alvea: instantiates the module web/boot.js started compiling, or
 // compiles now (see app/server/loader.go).
 async function alveaInstantiate(instantiateStreaming, url, progress, importObject) {
@@ -55,14 +92,22 @@ async function alveaInstantiate(instantiateStreaming, url, progress, importObjec
 }
 `
 
+// readyAttr is the attribute the frame sets on <html> once the app has
+// started (ui.ReadyAttr; a test keeps them equal).
+const readyAttr = "data-alvea"
+
 // PatchLoader returns go-app's app.js with its app.wasm loading replaced as
-// described above. It fails if go-app's app.js no longer has the one call
+// described above, and its service worker registered by alveaRegisterWorker. It fails if go-app's app.js no longer has the one call
 // it replaces (a go-app update must be looked at, not patched blindly).
 func PatchLoader(js []byte) ([]byte, error) {
 	if n := len(loaderCall.FindAllIndex(js, -1)); n != 1 {
 		return nil, fmt.Errorf("server: go-app's app.js has %d calls matching %q where 1 was expected: its loader changed, review PatchLoader", n, loaderCall)
 	}
+	if n := bytes.Count(js, []byte(workerCall)); n != 1 {
+		return nil, fmt.Errorf("server: go-app's app.js has %d calls %q where 1 was expected: its loader changed, review PatchLoader", n, workerCall)
+	}
 	out := loaderCall.ReplaceAll(js, []byte(`alveaInstantiate(instantiateStreaming, "$1", showProgress, go.importObject)`))
+	out = bytes.Replace(out, []byte(workerCall), []byte("\nalveaRegisterWorker(goappInitServiceWorker);\n"), 1)
 	return append(out, loaderFunc...), nil
 }
 

@@ -7,6 +7,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"alvea/app/ui"
 )
 
 // The app.js Serve sends is go-app's with the app.wasm fetch replaced:
@@ -45,8 +47,17 @@ func TestServedLoaderPatched(t *testing.T) {
 	if !strings.Contains(string(boot), `var url = "/web/app.wasm";`) {
 		t.Error("web/boot.js does not compile /web/app.wasm")
 	}
+	// The worker is registered through alveaRegisterWorker, keyed on the
+	// attribute the frame sets.
+	if !strings.Contains(string(js), "\nalveaRegisterWorker(goappInitServiceWorker);\n") || strings.Contains(string(js), workerCall) {
+		t.Error("the patched app.js registers the service worker at once")
+	}
+	if readyAttr != ui.ReadyAttr {
+		t.Errorf("the loader waits for %q, the frame sets %q", readyAttr, ui.ReadyAttr)
+	}
 	// Nothing else changed.
 	undo := strings.Replace(strings.TrimSuffix(string(js), loaderFunc), call, "@", 1)
+	undo = strings.Replace(undo, "\nalveaRegisterWorker(goappInitServiceWorker);\n", workerCall, 1)
 	o := loaderCall.ReplaceAllString(string(orig), "@")
 	if undo != o {
 		t.Error("the patch changed more than the one call")
