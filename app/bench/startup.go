@@ -203,7 +203,7 @@ func startFigures(alvea, floor *program, r *report) error {
 		r.add(y)
 	}
 	r.note("Interactive: go-app has removed its loader (app.wasm has run its first render) and, for Alvea, the frame has set %s=\"wasm\" on <html> in OnMount; read on the page's clock from the start of the navigation. First visits each use a fresh profile; warm starts are reloads in the last of them, every resource served by the service worker.", ui.ReadyAttr)
-	r.note("Both programs are served the same way (the server package: app.wasm negotiated by Accept-Encoding); the floor keeps go-app's own service worker. Bytes are counted by a proxy in front of each server: headers, the page's requests and the worker's precache.")
+	r.note("Both programs get app.wasm the same way (the server package: a pre-compressed copy negotiated by Accept-Encoding). The floor is go-app as it comes: its own service worker and loader. Alvea's start is its own (app/server/loader.go): web/boot.js first in the head starts the compile, app.js instantiates that module, and a first visit registers the worker only once the app has mounted. Bytes are counted by a proxy in front of each server: headers, the page's requests and the worker's precache.")
 
 	return nil
 }
