@@ -706,9 +706,12 @@ func planOption(s SetUp) PlanOption {
 	if op.FiO2High.Cmp(op.FiO2Low.Decimal) != 0 {
 		fio2 += "-" + op.FiO2High.String()
 	}
-	op.Label = fmt.Sprintf("option: %s at %s L/min oxygen (FiO2 %s)", s.Device, op.OxygenLpm, fio2)
+	// Built by concatenation, not fmt: the Brief computes options on every
+	// keystroke.
 	if s.TotalFlow != s.Flow {
-		op.Label = fmt.Sprintf("option: %s at %s L/min oxygen, %s L/min total (FiO2 %s)", s.Device, op.OxygenLpm, op.TotalLpm, fio2)
+		op.Label = "option: " + string(s.Device) + " at " + op.OxygenLpm.String() + " L/min oxygen, " + op.TotalLpm.String() + " L/min total (FiO2 " + fio2 + ")"
+	} else {
+		op.Label = "option: " + string(s.Device) + " at " + op.OxygenLpm.String() + " L/min oxygen (FiO2 " + fio2 + ")"
 	}
 	return op
 }
