@@ -59,9 +59,6 @@ func probePhases(p *program, rate float64, wait time.Duration) error {
 	defer c.close()
 	alvea := p.Name == "Alvea"
 	probe := interactiveProbe
-	if alvea {
-		probe = "window.__benchExpectMount = true;\n" + probe
-	}
 	c.onEveryPage(probe)
 	c.onEveryPage(phaseProbe)
 	c.throttle(rate)
