@@ -84,66 +84,104 @@ type startRuns struct {
 	firstBytes, warmByte []float64
 }
 
-// startTimes measures p at the CPU throttle rate: runs first visits, each
-// in a fresh profile (nothing cached, no service worker), then runs warm
-// starts in the last profile: reloads served by the service worker.
-func startTimes(p *program, rate float64, runs int) (*startRuns, error) {
-	alvea := p.Name == "Alvea"
-	probe := interactiveProbe
-	f := &startRuns{}
-	var last *chrome
+// firstVisit opens p in a fresh profile (nothing cached, no service
+// worker) at the CPU throttle rate and records the time to interactive and
+// the bytes sent, once the service worker has precached. It returns the
+// browser, left open for the warm starts.
+func firstVisit(p *program, rate float64, f *startRuns) (*chrome, error) {
+	c, err := newChrome()
+	if err != nil {
+		return nil, err
+	}
+	fail := func(err error) (*chrome, error) {
+		c.close()
+		return nil, fmt.Errorf("%s first visit: %w", p.Name, err)
+	}
+	if err := c.onEveryPage(interactiveProbe); err != nil {
+		return fail(err)
+	}
+	if err := c.throttle(rate); err != nil {
+		return fail(err)
+	}
+	from := p.bytesWritten.Load()
+	if err := c.do(120*time.Second, chromedp.Navigate(p.origin+"/")); err != nil {
+		return fail(err)
+	}
+	ms, err := waitInteractive(c, p.Name == "Alvea")
+	if err != nil {
+		return fail(err)
+	}
+	f.first = append(f.first, ms)
+	// The service worker active means its precache is done.
+	if _, err := evalJS[bool](c, `navigator.serviceWorker.ready.then(() => true)`); err != nil {
+		return fail(fmt.Errorf("service worker: %w", err))
+	}
+	f.firstBytes = append(f.firstBytes, float64(p.quiet(from)))
+	return c, nil
+}
+
+// warmStart reloads p in c (served by the service worker) and records the
+// time to interactive and the bytes sent.
+func warmStart(p *program, c *chrome, f *startRuns) error {
+	from := p.bytesWritten.Load()
+	if err := c.do(120*time.Second, chromedp.Reload()); err != nil {
+		return fmt.Errorf("%s warm start: %w", p.Name, err)
+	}
+	ms, err := waitInteractive(c, p.Name == "Alvea")
+	if err != nil {
+		return fmt.Errorf("%s warm start: %w", p.Name, err)
+	}
+	controlled, err := evalJS[bool](c, `navigator.serviceWorker.controller !== null`)
+	if err != nil || !controlled {
+		return fmt.Errorf("%s warm start: the page is not served by the service worker (%v)", p.Name, err)
+	}
+	f.warm = append(f.warm, ms)
+	f.warmByte = append(f.warmByte, float64(p.quiet(from)))
+	return nil
+}
+
+// startTimes measures both programs at the CPU throttle rate, taking turns
+// run by run (Alvea then the floor, then the floor then Alvea, …) so that a
+// change in the machine's load over the minutes weighs on both alike:
+// first, runs first visits each in a fresh profile; then runs warm starts,
+// reloads in each program's last profile.
+func startTimes(progs [2]*program, rate float64, runs int) ([2]*startRuns, error) {
+	figs := [2]*startRuns{{}, {}}
+	var last [2]*chrome
 	defer func() {
-		if last != nil {
-			last.close()
+		for _, c := range last {
+			if c != nil {
+				c.close()
+			}
 		}
 	}()
-	for i := 0; i < runs; i++ {
-		if last != nil {
-			last.close()
+	order := func(i int) []int {
+		if i%2 == 0 {
+			return []int{0, 1}
 		}
-		c, err := newChrome()
-		if err != nil {
-			return nil, err
-		}
-		last = c
-		if err := c.onEveryPage(probe); err != nil {
-			return nil, err
-		}
-		if err := c.throttle(rate); err != nil {
-			return nil, err
-		}
-		from := p.bytesWritten.Load()
-		if err := c.do(120*time.Second, chromedp.Navigate(p.origin+"/")); err != nil {
-			return nil, fmt.Errorf("%s first visit: %w", p.Name, err)
-		}
-		ms, err := waitInteractive(c, alvea)
-		if err != nil {
-			return nil, fmt.Errorf("%s first visit: %w", p.Name, err)
-		}
-		f.first = append(f.first, ms)
-		// The service worker active means its precache is done.
-		if _, err := evalJS[bool](c, `navigator.serviceWorker.ready.then(() => true)`); err != nil {
-			return nil, fmt.Errorf("%s: service worker: %w", p.Name, err)
-		}
-		f.firstBytes = append(f.firstBytes, float64(p.quiet(from)))
+		return []int{1, 0}
 	}
 	for i := 0; i < runs; i++ {
-		from := p.bytesWritten.Load()
-		if err := last.do(120*time.Second, chromedp.Reload()); err != nil {
-			return nil, fmt.Errorf("%s warm start: %w", p.Name, err)
+		for _, k := range order(i) {
+			if last[k] != nil {
+				last[k].close()
+				last[k] = nil
+			}
+			c, err := firstVisit(progs[k], rate, figs[k])
+			if err != nil {
+				return figs, err
+			}
+			last[k] = c
 		}
-		ms, err := waitInteractive(last, alvea)
-		if err != nil {
-			return nil, fmt.Errorf("%s warm start: %w", p.Name, err)
-		}
-		controlled, err := evalJS[bool](last, `navigator.serviceWorker.controller !== null`)
-		if err != nil || !controlled {
-			return nil, fmt.Errorf("%s warm start: the page is not served by the service worker (%v)", p.Name, err)
-		}
-		f.warm = append(f.warm, ms)
-		f.warmByte = append(f.warmByte, float64(p.quiet(from)))
 	}
-	return f, nil
+	for i := 0; i < runs; i++ {
+		for _, k := range order(i) {
+			if err := warmStart(progs[k], last[k], figs[k]); err != nil {
+				return figs, err
+			}
+		}
+	}
+	return figs, nil
 }
 
 // browserFigures runs every Chromium measurement.
@@ -178,14 +216,12 @@ func startFigures(alvea, floor *program, r *report) error {
 	}
 	figs := map[key]*startRuns{}
 	for _, rate := range []float64{1, 4} {
-		for _, p := range []*program{alvea, floor} {
-			progress("%s: %d first visits and %d warm starts at %gx CPU throttle", p.Name, *runs, *runs, rate)
-			f, err := startTimes(p, rate, *runs)
-			if err != nil {
-				return err
-			}
-			figs[key{p, rate}] = f
+		progress("Alvea and the floor, taking turns: %d first visits and %d warm starts each at %gx CPU throttle", *runs, *runs, rate)
+		f, err := startTimes([2]*program{alvea, floor}, rate, *runs)
+		if err != nil {
+			return err
 		}
+		figs[key{alvea, rate}], figs[key{floor, rate}] = f[0], f[1]
 	}
 
 	r.add(section("transfer (bytes on the wire, compressed, page and service worker)"))
@@ -204,7 +240,7 @@ func startFigures(alvea, floor *program, r *report) error {
 		y.Budget = &budget{Text: "≤ 1.2 × floor", Met: y.A.Median <= 1.2*y.F.Median}
 		r.add(y)
 	}
-	r.note("Interactive: go-app has removed its loader (app.wasm has run its first render) and, for Alvea, the frame has set %s=\"wasm\" on <html> in OnMount; read on the page's clock from the start of the navigation. First visits each use a fresh profile; warm starts are reloads in the last of them, every resource served by the service worker.", ui.ReadyAttr)
+	r.note("Interactive: go-app has removed its loader (app.wasm has run its first render) and, for Alvea, the frame has set %s=\"wasm\" on <html> in OnMount; read on the page's clock from the start of the navigation. First visits each use a fresh profile; warm starts are reloads in the last of them, every resource served by the service worker. The two programs take turns run by run (ABBA…), so a drift in the machine's load weighs on both.", ui.ReadyAttr)
 	r.note("Both programs get app.wasm the same way (the server package: a pre-compressed copy negotiated by Accept-Encoding). The floor is go-app as it comes: its own service worker and loader. Alvea's start is its own (app/server/loader.go): web/boot.js first in the head starts the compile, app.js instantiates that module, and a first visit registers the worker only once the app has mounted. Bytes are counted by a proxy in front of each server: headers, the page's requests and the worker's precache.")
 
 	return nil
