@@ -186,6 +186,30 @@ func TestBriefFullPlan(t *testing.T) {
 	pao2k, _ := physio.Round(physio.MmHg(want.Legs[1].PaO2ExpectedMmHg.InexactFloat64()).Kilopascals(), 1, physio.RoundDown)
 	check("b-r-leg1-pao2", physio.Number{Decimal: pao2k}, "kPa")
 	check("b-r-need", want.OxygenNeededL, "L") // unchanged: the stored values are the ones typed in ft
+	// The plan's warnings give their altitudes in metres as well, physio's
+	// feet kept in brackets; GNU units gives the conversion, rounded here
+	// to the metre.
+	converted := 0
+	for i, w := range want.Warnings {
+		for _, where := range []struct{ name, ft string }{{"origin", "1000"}, {"destination", "5000"}} {
+			from := "(" + where.name + ", " + where.ft + " ft)"
+			if !strings.Contains(w.Message, from) {
+				continue
+			}
+			m, err := strconv.ParseFloat(unitsConvert(t, where.ft+" ft", "m"), 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			shown := "(" + where.name + ", " + strconv.FormatFloat(math.Round(m), 'f', 0, 64) + " m (" + where.ft + " ft))"
+			if got := b.text(fmt.Sprintf("#b-warn%d-msg", i)); !strings.Contains(got, shown) {
+				t.Errorf("warning %d in metres = %q, want it to contain %q", i, got, shown)
+			}
+			converted++
+		}
+	}
+	if converted == 0 {
+		t.Error("the scenario has no warning naming a field altitude: nothing checked the warnings in metres")
+	}
 
 	// The draft survives a reload (saved a moment after the last key):
 	// route, legs and cylinders at once. With no logbook the patient block

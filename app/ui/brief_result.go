@@ -151,7 +151,7 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 	if caps.warn > 0 {
 		items := make([]app.UI, 0, caps.warn)
 		for i := 0; i < caps.warn; i++ {
-			w := warnSlot(r, i)
+			w := s.warnSlot(r, i)
 			li := app.Li().ID(w.id).Class("b-warn").DataSet("severity", w.severity).DataSet("code", w.code)
 			if w.gone {
 				li = li.Hidden(true)
@@ -264,13 +264,13 @@ type warnRow struct {
 	gone                             bool
 }
 
-func warnSlot(r *physio.PlanResult, i int) warnRow {
+func (s *briefState) warnSlot(r *physio.PlanResult, i int) warnRow {
 	id := "b-warn" + strconv.Itoa(i)
 	if i >= len(r.Warnings) {
 		return warnRow{id: id, gone: true}
 	}
 	w := r.Warnings[i]
-	return warnRow{id: id, severity: w.Severity, code: w.Code, sevText: severityText(w.Severity), msg: " " + w.Message}
+	return warnRow{id: id, severity: w.Severity, code: w.Code, sevText: severityText(w.Severity), msg: " " + s.inUnits(w.Message)}
 }
 
 // cylRow is the k-th place of the cylinders table as shown.
@@ -902,7 +902,7 @@ func (s *briefState) pack(p *panelPack) {
 		p.attr("hidden", none, "b-warn-title")
 		p.attr("hidden", none, "b-warnings")
 		for i := 0; i < n; i++ {
-			w := warnSlot(r, i)
+			w := s.warnSlot(r, i)
 			p.attr("hidden", hiddenAttr(w.gone), w.id)
 			p.attr("data-severity", w.severity, w.id)
 			p.attr("data-code", w.code, w.id)
