@@ -285,7 +285,7 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 	}
 	res, err := physio.ComputePlan(doc)
 	if err != nil {
-		m.planErrors(err)
+		m.planErrors(err, st)
 		return m
 	}
 	m.result = res
@@ -294,19 +294,19 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 
 // planErrors puts each of physio's problems beside its field, or in the
 // list of problems with no field.
-func (m *briefModel) planErrors(err error) {
+func (m *briefModel) planErrors(err error, settings Settings) {
 	var pe physio.PlanErrors
 	if !errors.As(err, &pe) {
-		m.other = append(m.other, "The plan could not be computed: "+strings.TrimPrefix(err.Error(), "physio: ")+".")
+		m.other = append(m.other, "The plan could not be computed: "+inDisplayUnits(settings, strings.TrimPrefix(err.Error(), "physio: "))+".")
 		return
 	}
 	for _, fe := range pe {
 		id, ok := m.paths[fe.Path]
 		if !ok {
-			m.other = append(m.other, fe.Path+": "+fe.Message+".")
+			m.other = append(m.other, fe.Path+": "+inDisplayUnits(settings, fe.Message)+".")
 			continue
 		}
-		m.fail(id, "", sentence(fe.Message))
+		m.fail(id, "", sentence(inDisplayUnits(settings, fe.Message)))
 	}
 	if len(m.order) == 0 && len(m.other) == 0 {
 		m.other = append(m.other, "The plan could not be computed.")

@@ -7,17 +7,22 @@ import (
 	"alvea/physio"
 )
 
-// inUnits returns a sentence from physio (a warning of the plan) with its
-// altitudes and gas pressures also given in the crew's display units.
+// inUnits returns a sentence from physio (a warning of the plan) in the
+// Brief's display units (inDisplayUnits).
+func (s *briefState) inUnits(msg string) string { return inDisplayUnits(s.settings, msg) }
+
+// inDisplayUnits returns a sentence from physio (a warning of the plan, a
+// problem the plan reports) with its altitudes and gas pressures also
+// given in the crew's display units.
 // physio writes its sentences in feet and mmHg, the units of the plan
 // document; a crew reading metres or kPa gets the converted value first
 // and physio's own in brackets: "above 2438 m (8000 ft)". The original
 // stays, so the sentence still matches the figures of the plan and any
 // limit quoted from a rule in feet. A converted value is rounded to the
 // nearest (to the metre, to 0.1 kPa): it stands beside the exact one.
-func (s *briefState) inUnits(msg string) string {
-	toM := s.settings.AltitudeUnit == UnitM
-	toKPa := s.settings.GasUnit == UnitKPa
+func inDisplayUnits(settings Settings, msg string) string {
+	toM := settings.AltitudeUnit == UnitM
+	toKPa := settings.GasUnit == UnitKPa
 	if !toM && !toKPa {
 		return msg
 	}
