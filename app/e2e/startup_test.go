@@ -97,3 +97,64 @@ func TestStartCompilesEarlyOnce(t *testing.T) {
 		t.Errorf("warm start: heading %q, want Brief", got)
 	}
 }
+
+// firstRenderProbe records, for each #b-rt-origin element go-app puts in
+// the page (once app.wasm runs: its "alvea:main" mark is set; the parser's
+// copy of the server page comes before), the value it holds when the
+// change that added it is reported (after that render's task, before any
+// later one).
+const firstRenderProbe = `(() => {
+	window.__firstOrigin = [];
+	new MutationObserver((records) => {
+		if (performance.getEntriesByName("alvea:main").length === 0) return;
+		for (const r of records) {
+			for (const n of r.addedNodes) {
+				if (n.nodeType !== 1) continue;
+				const e = n.id === "b-rt-origin" ? n : n.querySelector("#b-rt-origin");
+				if (e) window.__firstOrigin.push(e.value);
+			}
+		}
+	}).observe(document, {childList: true, subtree: true});
+})();`
+
+// The Brief never puts the default form on screen before the stored draft:
+// after a reload and on a switch back to the Brief, the origin field go-app
+// adds already holds the stored value when the change is reported (the
+// Brief renders with defaults before OnMount loads the draft, but both
+// renders fall in the same task, before the page is drawn).
+func TestBriefFirstRenderShowsDraft(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.open(srv.URL("/"))
+	b.typeInto("#b-rt-origin", "1234")
+	b.waitFor("the draft saved", `(localStorage.getItem("alvea.brief.draft") ?? "").includes("1234")`, 10*time.Second)
+	if _, err := chromedp.Call(b.ctx, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: firstRenderProbe}); err != nil {
+		t.Fatal(err)
+	}
+	b.reload()
+	b.waitFor("the origin field", `document.querySelector("#b-rt-origin")?.value === "1234"`, 10*time.Second)
+	seen := eval[[]string](b, `window.__firstOrigin`)
+	if len(seen) == 0 {
+		t.Fatal("no origin field added by the app after the reload")
+	}
+	for i, v := range seen {
+		if v != "1234" {
+			t.Errorf("after a reload, origin field %d was first drawn with %q, want the stored 1234 (all seen: %q)", i, v, seen)
+		}
+	}
+	// Away and back: the Brief is made anew and renders once.
+	b.tap("#tab-supply")
+	b.waitFor("Supply", `document.querySelector("main h1")?.textContent === "Supply"`, 10*time.Second)
+	before := len(eval[[]string](b, `window.__firstOrigin`))
+	b.tap("#tab-brief")
+	b.waitFor("the origin field", `document.querySelector("#b-rt-origin")?.value === "1234"`, 10*time.Second)
+	seen = eval[[]string](b, `window.__firstOrigin`)
+	if len(seen) <= before {
+		t.Fatalf("no origin field added on the way back (seen %q)", seen)
+	}
+	for _, v := range seen[before:] {
+		if v != "1234" {
+			t.Errorf("back on the Brief, the origin field was first drawn with %q, want 1234 (seen %q)", v, seen[before:])
+		}
+	}
+}
