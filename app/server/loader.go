@@ -16,10 +16,12 @@ import (
 
 // Start-up: go-app's loader (its app.js, a deferred script) starts
 // fetching and compiling app.wasm only once the whole page is parsed and
-// its style sheets loaded, and it hands the compiler a Response rebuilt
-// from a stream (to count bytes for its progress label). A rebuilt
-// Response has no URL, so Chromium can neither keep the code it compiled
-// nor reuse it: every start compiles the whole module again.
+// its style sheets loaded (about 100 ms into a warm start on the bench
+// machine), and it hands the compiler a Response rebuilt from a stream (to
+// count bytes for its progress label); a rebuilt Response has no URL, so
+// the browser cannot keep the code it compiles for it. (Passing the
+// worker's own Response gained about 30 ms of a warm start here; whether
+// Chromium then keeps compiled code depends on its own tiering.)
 //
 // Alvea serves every page with web/boot.js as the first script of its
 // head, before the style sheets (a script after them would wait for them),
