@@ -119,9 +119,11 @@ const firstRenderProbe = `(() => {
 
 // The Brief never puts the default form on screen before the stored draft:
 // after a reload and on a switch back to the Brief, the origin field go-app
-// adds already holds the stored value when the change is reported (the
-// Brief renders with defaults before OnMount loads the draft, but both
-// renders fall in the same task, before the page is drawn).
+// adds already holds the stored value when the change is reported. (The
+// Brief used to render with defaults, then again once OnMount had loaded
+// the draft; the two renders usually fell in the same task, but this test
+// saw the empty field first in one clean run. It now reads the draft before
+// its first render: app/ui/preload.go.)
 func TestBriefFirstRenderShowsDraft(t *testing.T) {
 	srv := startApp(t, repoRoot)
 	b := newBrowser(t, t.TempDir())

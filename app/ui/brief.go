@@ -2,6 +2,7 @@ package ui
 
 import (
 	"context"
+	"reflect"
 	"strings"
 	"time"
 
@@ -162,18 +163,28 @@ func (b *brief) OnDismount() {
 }
 
 // load reads the settings and the stored draft, and follows Settings.
+// When the first render already showed them (read before it, see
+// preload.go), nothing is drawn again.
 func (b *brief) load(ctx app.Context) {
 	s := b.s
-	s.settings = LoadSettings(ctx)
+	settings := LoadSettings(ctx)
+	same := s.model != nil && reflect.DeepEqual(settings, s.settings)
+	s.settings = settings
 	ctx.ObserveState(SettingsKey, &s.settings).OnChange(func() {
 		s.recompute()
 		s.formRev++
 	})
+	draft := NewBriefDraft()
 	if d, found, err := s.store.Load(ctx); err != nil {
 		app.Log(err)
+		draft = s.draft
 	} else if found {
-		s.draft = d
+		draft = d
 	}
+	if same && reflect.DeepEqual(draft, s.draft) {
+		return
+	}
+	s.draft = draft
 	s.recompute()
 	s.formRev++
 }
@@ -297,6 +308,7 @@ func (s *briefState) allMsgs() string {
 func (b *brief) Render() app.UI {
 	s := b.s
 	if s.model == nil {
+		s.preload()
 		s.recompute()
 	}
 	s.shownMsgs = s.allMsgs()

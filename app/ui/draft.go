@@ -173,8 +173,16 @@ type storedPatient struct {
 }
 
 func (localDraftStore) Load(ctx app.Context) (BriefDraft, bool, error) {
+	return loadLocalDraft(ctx.LocalStorage())
+}
+
+// Preload reads the draft without a Context (browser only; see preload.go).
+func (localDraftStore) Preload() (BriefDraft, bool, error) { return loadLocalDraft(windowStorage{}) }
+
+// loadLocalDraft reads the draft kept in ls, the patient block left out.
+func loadLocalDraft(ls storageGetter) (BriefDraft, bool, error) {
 	var s storedDraft
-	if err := ctx.LocalStorage().Get(draftKey, &s); err != nil {
+	if err := ls.Get(draftKey, &s); err != nil {
 		return NewBriefDraft(), false, fmt.Errorf("ui: reading the brief draft: %w", err)
 	}
 	if s.Schema != draftSchema {

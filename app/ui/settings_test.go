@@ -1,9 +1,12 @@
 package ui
 
 import (
+	"reflect"
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
 )
 
 // Range checks: each message names the field, the allowed range and the
@@ -164,5 +167,29 @@ func TestSettingsAutoLock(t *testing.T) {
 	s.AutoLockMinutes = "0"
 	if s.AutoLock() != 5*time.Minute {
 		t.Errorf("an invalid value gives %v, want the 5 min default", s.AutoLock())
+	}
+}
+
+// The Brief reads the settings before its first render without a Context
+// (preload.go), from go-app's persisted form of the state: the two readings
+// agree, for the defaults and for saved settings.
+func TestSettingsReadBeforeFirstRender(t *testing.T) {
+	p, e := mount(t, app.Div())
+	ctx := p.ctx
+	if got, ok := settingsFrom(ctx.LocalStorage()); !ok || !reflect.DeepEqual(got, LoadSettings(ctx)) {
+		t.Errorf("nothing saved: read %+v (ok %v), LoadSettings %+v", got, ok, LoadSettings(ctx))
+	}
+	s := DefaultSettings()
+	s.AltitudeUnit, s.GasUnit, s.Theme, s.SafeResidual = UnitM, UnitKPa, "night", "300"
+	if err := SaveSettings(ctx, s); err != nil {
+		t.Fatal(err)
+	}
+	e.ConsumeAll()
+	got, ok := settingsFrom(ctx.LocalStorage())
+	if want := LoadSettings(ctx); !ok || !reflect.DeepEqual(got, want) {
+		t.Errorf("saved: read %+v (ok %v), LoadSettings %+v", got, ok, want)
+	}
+	if got.AltitudeUnit != UnitM || got.Theme != "night" || got.SafeResidual != "300" {
+		t.Errorf("read %+v, want the saved metres, night and 300", got)
 	}
 }

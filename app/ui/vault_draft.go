@@ -67,6 +67,19 @@ func (d vaultDraftStore) Load(ctx app.Context) (BriefDraft, bool, error) {
 	return draft, found, err
 }
 
+// Preload reads the draft without a Context (browser only; see
+// preload.go): localStorage's part and the patient block the session holds.
+// A patient block an earlier version left in localStorage is not moved
+// here: Load does it, and the Brief then renders again.
+func (d vaultDraftStore) Preload() (BriefDraft, bool, error) {
+	draft, found, err := localDraftStore{}.Preload()
+	if p, ok := d.session.DraftPatient(); ok {
+		draft.Patient = p
+		found = true
+	}
+	return draft, found, err
+}
+
 func (d vaultDraftStore) Save(ctx app.Context, draft BriefDraft) error {
 	err := localDraftStore{}.Save(ctx, draft)
 	if d.session.KeepDraftPatient(draft.Patient) && d.session.unlocked() != nil {
