@@ -12,10 +12,9 @@ import (
 	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
-)
 
-// chromiumPath is Debian's chromium, as in the browser tests.
-const chromiumPath = "/usr/bin/chromium"
+	"alvea/app/internal/chromium"
+)
 
 // chrome is one headless Chromium with one tab on a profile of its own,
 // started with the browser tests' flags.
@@ -26,26 +25,14 @@ type chrome struct {
 }
 
 func newChrome() (*chrome, error) {
-	if _, err := os.Stat(chromiumPath); err != nil {
-		return nil, fmt.Errorf("chromium is required (make deps installs it): %w", err)
+	if err := chromium.Installed(); err != nil {
+		return nil, err
 	}
 	profile, err := os.MkdirTemp("", "alvea-bench-profile-")
 	if err != nil {
 		return nil, err
 	}
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(chromiumPath),
-		chromedp.Flag("headless", true),
-		chromedp.Flag("no-sandbox", true),
-		chromedp.Flag("disable-gpu", true),
-		chromedp.Flag("disable-quic", true),
-		chromedp.Flag("no-first-run", true),
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.UserDataDir(profile),
-	}
-	allocCtx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
+	allocCtx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), chromium.Options(profile)...)
 	ctx, cancelCtx := chromedp.NewContext(allocCtx)
 	c := &chrome{ctx: ctx, profile: profile, cancel: func() {
 		cancelCtx()

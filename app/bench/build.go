@@ -15,11 +15,12 @@ import (
 	"sync/atomic"
 	"time"
 
+	"alvea/app/internal/chromium"
 	"alvea/app/server"
 )
 
 // The flags of the Makefile's builds: the same for Alvea and the floor.
-var buildFlags = []string{"-trimpath", "-ldflags=-s -w"}
+var buildFlags = chromium.WasmBuildFlags
 
 const buildFlagsText = `-trimpath -ldflags="-s -w"`
 

@@ -29,6 +29,8 @@ import (
 	"path/filepath"
 	"strings"
 	"time"
+
+	"alvea/app/internal/chromium"
 )
 
 var (
@@ -78,7 +80,7 @@ func run() error {
 	if err := parseOnly(); err != nil {
 		return err
 	}
-	repo, err := findRepoRoot()
+	repo, err := chromium.RepoRoot()
 	if err != nil {
 		return err
 	}
@@ -148,21 +150,4 @@ func run() error {
 
 func progress(format string, args ...any) {
 	fmt.Fprintf(os.Stderr, "bench: "+format+"\n", args...)
-}
-
-func findRepoRoot() (string, error) {
-	dir, err := os.Getwd()
-	if err != nil {
-		return "", err
-	}
-	for {
-		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
-			return dir, nil
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			return "", errors.New("go.mod not found above the working directory")
-		}
-		dir = parent
-	}
 }

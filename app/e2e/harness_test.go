@@ -5,7 +5,6 @@ package e2e
 import (
 	"context"
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io/fs"
@@ -22,18 +21,16 @@ import (
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/chromedp"
 
+	"alvea/app/internal/chromium"
 	"alvea/app/server"
 	"alvea/app/ui"
 )
-
-// chromiumPath is Debian's chromium, which make test installs when missing.
-const chromiumPath = "/usr/bin/chromium"
 
 // repoRoot is the module root (it holds go.mod and web/).
 var repoRoot string
 
 func TestMain(m *testing.M) {
-	root, err := findRepoRoot()
+	root, err := chromium.RepoRoot()
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "e2e:", err)
 		os.Exit(1)
@@ -47,7 +44,8 @@ func TestMain(m *testing.M) {
 	}
 	// Rebuild app.wasm with the flags make uses (incremental when nothing
 	// changed), so a test never runs against a stale build.
-	cmd := exec.Command("go", "build", "-trimpath", "-ldflags=-s -w", "-o", filepath.Join(root, "web", "app.wasm"), "./app")
+	args := append(append([]string{"build"}, chromium.WasmBuildFlags...), "-o", filepath.Join(root, "web", "app.wasm"), "./app")
+	cmd := exec.Command("go", args...)
 	cmd.Dir = root
 	cmd.Env = append(os.Environ(), "GOOS=js", "GOARCH=wasm")
 	if out, err := cmd.CombinedOutput(); err != nil {
@@ -55,23 +53,6 @@ func TestMain(m *testing.M) {
 		os.Exit(1)
 	}
 	os.Exit(m.Run())
-}
-
-func findRepoRoot() (string, error) {
-	dir, err := os.Getwd()
-	if err != nil {
-		return "", err
-	}
-	for {
-		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
-			return dir, nil
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			return "", errors.New("go.mod not found above the working directory")
-		}
-		dir = parent
-	}
 }
 
 // ---------------------------------------------------------------------------
@@ -218,22 +199,10 @@ type browser struct {
 // missing.
 func newBrowser(t *testing.T, dataDir string) *browser {
 	t.Helper()
-	if _, err := os.Stat(chromiumPath); err != nil {
-		t.Fatalf("chromium is required for the browser tests (make test installs it): %v", err)
+	if err := chromium.Installed(); err != nil {
+		t.Fatal(err) // a missing browser fails the tests, never skips them
 	}
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(chromiumPath),
-		chromedp.Flag("headless", true),
-		chromedp.Flag("no-sandbox", true),
-		chromedp.Flag("disable-gpu", true),
-		chromedp.Flag("disable-quic", true),
-		chromedp.Flag("no-first-run", true),
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.UserDataDir(dataDir),
-	}
-	allocCtx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
+	allocCtx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), chromium.Options(dataDir)...)
 	ctx, cancelCtx := chromedp.NewContext(allocCtx)
 	b := &browser{t: t, dataDir: dataDir, ctx: ctx}
 	b.cancel = func() { cancelCtx(); cancelAlloc() }
