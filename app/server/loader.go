@@ -173,17 +173,21 @@ func isPage(p string) bool {
 	return ext == "" || ext == ".html"
 }
 
-// servePage serves go-app's answer for a page (GET), patched when it is
-// HTML.
+// servePage serves go-app's answer for a page, patched when it is HTML.
+// A HEAD gets the headers of the patched GET (its Content-Length above
+// all); a 304 (go-app's answer to a matching ETag: the version, which the
+// patched page follows) passes through as it is.
 func servePage(w http.ResponseWriter, r *http.Request, h http.Handler) {
-	if r.Method != http.MethodGet {
+	if r.Method != http.MethodGet && r.Method != http.MethodHead {
 		h.ServeHTTP(w, r)
 		return
 	}
+	get := r.Clone(r.Context())
+	get.Method = http.MethodGet
 	rec := httptest.NewRecorder()
-	h.ServeHTTP(rec, r)
+	h.ServeHTTP(rec, get)
 	body := rec.Body.Bytes()
-	if strings.HasPrefix(rec.Header().Get("Content-Type"), "text/html") {
+	if rec.Code == http.StatusOK && strings.HasPrefix(rec.Header().Get("Content-Type"), "text/html") {
 		patched, err := PatchPage(body)
 		if err != nil {
 			http.Error(w, err.Error(), http.StatusInternalServerError)
@@ -194,7 +198,11 @@ func servePage(w http.ResponseWriter, r *http.Request, h http.Handler) {
 	for k, v := range rec.Header() {
 		w.Header()[k] = v
 	}
-	w.Header().Set("Content-Length", strconv.Itoa(len(body)))
+	if rec.Code != http.StatusNotModified {
+		w.Header().Set("Content-Length", strconv.Itoa(len(body)))
+	}
 	w.WriteHeader(rec.Code)
-	w.Write(body)
+	if r.Method == http.MethodGet && rec.Code != http.StatusNotModified {
+		w.Write(body)
+	}
 }

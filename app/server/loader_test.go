@@ -1,6 +1,7 @@
 package server
 
 import (
+	"net/http"
 	"net/http/httptest"
 	"os"
 	"path/filepath"
@@ -137,6 +138,24 @@ func TestPagesRunBootFirst(t *testing.T) {
 		}
 		checkBootFirst(t, p, string(body))
 	}
+	// HEAD tells the patched page's length; a request with the version's
+	// ETag gets go-app's 304, with no body and no length of its own.
+	get, body := fetch(t, srv, "GET", "/supply", "")
+	head, _ := fetch(t, srv, "HEAD", "/supply", "")
+	if head.StatusCode != 200 || head.Header.Get("Content-Length") != strconv.Itoa(len(body)) {
+		t.Errorf("HEAD /supply: status %d, Content-Length %q; GET sends %d bytes", head.StatusCode, head.Header.Get("Content-Length"), len(body))
+	}
+	req, _ := http.NewRequest("GET", srv.URL+"/supply", nil)
+	req.Header.Set("If-None-Match", get.Header.Get("ETag"))
+	res, err := http.DefaultClient.Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res.Body.Close()
+	if res.StatusCode != http.StatusNotModified || res.Header.Get("Content-Length") != "" {
+		t.Errorf("GET /supply with its ETag: status %d, Content-Length %q; want 304 and none", res.StatusCode, res.Header.Get("Content-Length"))
+	}
+
 	out := t.TempDir()
 	if _, err := WriteStatic(out, root); err != nil {
 		t.Fatal(err)
