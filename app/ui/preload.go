@@ -13,7 +13,9 @@ import (
 // them. The two renders usually fall in the same task, but not always: a
 // browser test saw the default form drawn first after a reload (an empty
 // origin field where the crew had typed one). OnMount still loads them the
-// usual way; when they match, nothing is drawn again.
+// usual way; when they match, nothing is drawn again. The Settings screen
+// reads the saved settings before its first render the same way (a
+// clean-clone run saw its defaults still on screen after a reload).
 
 // storageGetter reads a JSON value from a key-value storage: go-app's
 // BrowserStorage (ctx.LocalStorage()) and windowStorage both do.
@@ -74,7 +76,7 @@ func (s *briefState) preload() {
 	if !ok {
 		return
 	}
-	settings, ok := settingsFrom(windowStorage{})
+	settings, ok := preloadSettings()
 	if !ok {
 		return
 	}
@@ -86,4 +88,13 @@ func (s *briefState) preload() {
 	if found {
 		s.draft = d
 	}
+}
+
+// preloadSettings reads the saved settings before a first render, in the
+// browser only (false elsewhere, or when they cannot be read this way).
+func preloadSettings() (Settings, bool) {
+	if !app.IsClient {
+		return Settings{}, false
+	}
+	return settingsFrom(windowStorage{})
 }

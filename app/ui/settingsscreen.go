@@ -21,6 +21,7 @@ type settingsScreen struct {
 	messages FieldErrors       // the message beside each field, if any
 	newCyl   CustomCylinder    // the add-a-cylinder form
 	cylMsgs  FieldErrors
+	rendered bool // the first render has read the saved settings
 }
 
 func newSettingsScreen() *settingsScreen {
@@ -143,6 +144,15 @@ func (s *settingsScreen) removeCylinder(ctx app.Context, i int) {
 }
 
 func (s *settingsScreen) Render() app.UI {
+	if !s.rendered {
+		// The saved settings, read before the first render so that the
+		// defaults are never drawn first (see preload.go); OnMount reads
+		// them again through go-app.
+		s.rendered = true
+		if st, ok := preloadSettings(); ok {
+			s.load(st)
+		}
+	}
 	st := s.saved
 	return app.Section().Class("alv-screen").Aria("labelledby", "settings-title").Body(
 		app.H1().ID("settings-title").Text("Settings"),
