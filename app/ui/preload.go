@@ -2,6 +2,7 @@ package ui
 
 import (
 	"encoding/json"
+	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 )
@@ -15,7 +16,12 @@ import (
 // origin field where the crew had typed one). OnMount still loads them the
 // usual way; when they match, nothing is drawn again. The Settings screen
 // reads the saved settings before its first render the same way (a
-// clean-clone run saw its defaults still on screen after a reload).
+// clean-clone run saw its defaults still on screen after a reload), and so
+// do Supply (the settings, its session and the Brief draft's cylinders,
+// legs and reserve policy) and Altitude (the settings and the Brief
+// draft's route and patient). What lives only in IndexedDB (the vault and
+// its transports) cannot be read before a first render and is loaded
+// after it as before.
 
 // storageGetter reads a JSON value from a key-value storage: go-app's
 // BrowserStorage (ctx.LocalStorage()) and windowStorage both do.
@@ -40,20 +46,33 @@ func (windowStorage) Get(k string, v any) error {
 type persistedState struct {
 	Value          json.RawMessage `json:",omitempty"`
 	EncryptedValue []byte          `json:",omitempty"`
+	ExpiresAt      time.Time       `json:",omitempty"`
+}
+
+// stateFrom reads the go-app state kept in ls under key into v, as
+// ctx.GetState does for a state not yet in memory: v is left as it is when
+// none is stored. It is false when the state cannot be read this way (kept
+// encrypted, with an expiry go-app would check, or unreadable); v may then
+// be partly written.
+func stateFrom(ls storageGetter, key string, v any) bool {
+	var st persistedState
+	if err := ls.Get(key, &st); err != nil || len(st.EncryptedValue) != 0 || !st.ExpiresAt.IsZero() {
+		return false
+	}
+	if len(st.Value) != 0 {
+		if err := json.Unmarshal(st.Value, v); err != nil {
+			return false
+		}
+	}
+	return true
 }
 
 // settingsFrom reads the settings as LoadSettings does, from ls; ok is
 // false when they cannot be read this way (kept encrypted, or unreadable).
 func settingsFrom(ls storageGetter) (s Settings, ok bool) {
 	s = DefaultSettings()
-	var st persistedState
-	if err := ls.Get(SettingsKey, &st); err != nil || len(st.EncryptedValue) != 0 {
-		return s, false
-	}
-	if len(st.Value) != 0 {
-		if err := json.Unmarshal(st.Value, &s); err != nil {
-			return DefaultSettings(), false
-		}
+	if !stateFrom(ls, SettingsKey, &s) {
+		return DefaultSettings(), false
 	}
 	s, _ = s.normalized()
 	return s.clone(), true

@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"reflect"
 	"strconv"
 	"strings"
 	"time"
@@ -25,7 +26,26 @@ const supplyTick = 15 * time.Second
 // the oxygen remaining against the clock.
 type supply struct {
 	app.Compo
+	supplyShown
 
+	confirmNew bool // "new transport" tapped: asking before clearing
+	now        func() time.Time
+	tick       time.Duration // 0: no ticking (component tests)
+	shown      time.Time     // the clock time of the last redraw
+	stop       chan struct{}
+	rendered   bool // the first render has read what is saved
+
+	vault   *vaultSession // the Logbook's vault session; nil: no Logbook
+	unsub   func()
+	mctx    app.Context // the component's own context, for work that outlives an event
+	mounted bool        // mctx is set
+	link    supplyLink
+}
+
+// supplyShown is what the Supply screen draws from what it loads: the
+// settings, its session and the parts of the Brief draft it takes, and the
+// fields as that gives them.
+type supplyShown struct {
 	settings Settings
 	session  SupplySession
 	fromPlan bool      // the cylinders come from the Brief draft
@@ -33,18 +53,7 @@ type supply struct {
 	policy   *supplyPolicy
 
 	gaugeText, flowText string // the fields as typed
-	confirmNew          bool   // "new transport" tapped: asking before clearing
 	messages            FieldErrors
-	now                 func() time.Time
-	tick                time.Duration // 0: no ticking (component tests)
-	shown               time.Time     // the clock time of the last redraw
-	stop                chan struct{}
-
-	vault   *vaultSession // the Logbook's vault session; nil: no Logbook
-	unsub   func()
-	mctx    app.Context // the component's own context, for work that outlives an event
-	mounted bool        // mctx is set
-	link    supplyLink
 }
 
 func newSupply() *supply {
@@ -70,12 +79,57 @@ func (s *supply) load(st Settings, session SupplySession) {
 	}
 }
 
+// restore shows the settings st, the session and the Brief draft's parts
+// (found false: no draft), as a new screen would, and reports whether that
+// changed anything drawn from them.
+func (s *supply) restore(st Settings, session SupplySession, parts draftParts, found bool) bool {
+	next := &supply{now: s.now}
+	next.load(st, session)
+	if found {
+		next.adoptParts(parts)
+	}
+	if reflect.DeepEqual(next.supplyShown, s.supplyShown) {
+		return false
+	}
+	s.supplyShown, s.shown = next.supplyShown, next.shown
+	return true
+}
+
+// preload reads the settings, the session and the Brief draft before the
+// first render, in the browser (see preload.go). Anything it cannot read
+// leaves the defaults, and OnMount's load then renders again as before.
+func (s *supply) preload() {
+	if !app.IsClient {
+		return
+	}
+	s.preloadFrom(windowStorage{}, theVault)
+}
+
+func (s *supply) preloadFrom(ls storageGetter, vault *vaultSession) {
+	st, ok := settingsFrom(ls)
+	if !ok {
+		return
+	}
+	session, ok := supplySessionFrom(ls)
+	if !ok {
+		return
+	}
+	parts, found := draftPlanFrom(ls, st, vault)
+	s.restore(st, session, parts, found)
+}
+
 func (s *supply) OnMount(ctx app.Context) {
 	s.mctx, s.mounted = ctx, true
-	s.load(LoadSettings(ctx), loadSupplySession(ctx))
-	s.adoptDraft(ctx)
+	link := s.link
+	parts, found := draftPlan(ctx)
+	changed := s.restore(LoadSettings(ctx), loadSupplySession(ctx), parts, found)
 	ctx.ObserveState(SettingsKey, &s.settings).OnChange(func() { s.unitsChanged() })
 	s.watchLogbook(ctx)
+	if !changed && link.sameShown(s.link) {
+		// The first render already showed all of it (preload): nothing
+		// to draw again.
+		ctx.PreventUpdate()
+	}
 	if s.tick > 0 {
 		stop := make(chan struct{})
 		s.stop = stop
@@ -116,17 +170,9 @@ type supplyPolicy struct {
 	Text     string // the residual as the Brief gives it, with its unit
 }
 
-// adoptDraft takes the cylinders (expanded by count), the legs and the
+// adoptParts takes the cylinders (expanded by count), the legs and the
 // reserve policy from the Brief draft, each when that part of the draft is
 // complete. The patient is not needed.
-func (s *supply) adoptDraft(ctx app.Context) {
-	parts, ok := draftPlan(ctx)
-	if !ok {
-		return
-	}
-	s.adoptParts(parts)
-}
-
 func (s *supply) adoptParts(parts draftParts) {
 	doc := parts.doc
 	if !parts.supply || doc == nil || len(doc.Supply) == 0 {
@@ -362,6 +408,10 @@ func (s *supply) current() (countdown, string) {
 }
 
 func (s *supply) Render() app.UI {
+	if !s.rendered {
+		s.rendered = true
+		s.preload()
+	}
 	cd, msg := s.current()
 	return app.Section().Class("alv-screen alv-supply").Aria("labelledby", "supply-title").Body(
 		app.H1().ID("supply-title").Text("Supply"),

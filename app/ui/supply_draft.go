@@ -62,19 +62,26 @@ func readDraftParts(d BriefDraft, st Settings) draftParts {
 // supply and policy in localStorage; the patient block where the Brief
 // holds it) and changes nothing. Tests replace it.
 var draftPlan = func(ctx app.Context) (draftParts, bool) {
-	d, found := readBriefDraft(ctx, theVault)
+	return draftPlanFrom(ctx.LocalStorage(), LoadSettings(ctx), theVault)
+}
+
+// draftPlanFrom is draftPlan reading the plain part of the draft from ls
+// (go-app's localStorage, or windowStorage before a first render), under
+// the settings st.
+func draftPlanFrom(ls storageGetter, st Settings, s *vaultSession) (draftParts, bool) {
+	d, found := readBriefDraft(ls, s)
 	if !found {
 		return draftParts{}, false
 	}
-	return readDraftParts(d, LoadSettings(ctx)), true
+	return readDraftParts(d, st), true
 }
 
 // readBriefDraft reads the Brief draft without moving or deleting any of
-// it: the plain part through localDraftStore, and the patient block the
-// vault session holds in memory for the Brief (see vaultDraftStore), which
-// wins over anything else.
-func readBriefDraft(ctx app.Context, s *vaultSession) (BriefDraft, bool) {
-	d, found, err := localDraftStore{}.Load(ctx)
+// it: the plain part as localDraftStore keeps it in ls, and the patient
+// block the vault session holds in memory for the Brief (see
+// vaultDraftStore), which wins over anything else.
+func readBriefDraft(ls storageGetter, s *vaultSession) (BriefDraft, bool) {
+	d, found, err := loadLocalDraft(ls)
 	if err != nil {
 		return BriefDraft{}, false
 	}

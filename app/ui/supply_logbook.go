@@ -41,6 +41,13 @@ type supplyLink struct {
 	problem   string             // the last refusal (role=alert)
 }
 
+// sameShown reports whether l and m draw the same (the refresh count
+// aside).
+func (l supplyLink) sameShown(m supplyLink) bool {
+	l.gen = m.gen
+	return l == m
+}
+
 // open returns the open transport when the vault is unlocked.
 func (l *supplyLink) open() *logbook.Transport {
 	if l.phase != phaseUnlocked {

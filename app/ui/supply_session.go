@@ -79,6 +79,22 @@ func (s SupplySession) clone() SupplySession {
 func loadSupplySession(ctx app.Context) SupplySession {
 	s := defaultSupplySession()
 	ctx.GetState(SupplyKey, &s)
+	return s.checked()
+}
+
+// supplySessionFrom reads the session as loadSupplySession does, from ls
+// without a Context (preload.go); false when it cannot be read this way.
+func supplySessionFrom(ls storageGetter) (SupplySession, bool) {
+	s := defaultSupplySession()
+	if !stateFrom(ls, SupplyKey, &s) {
+		return SupplySession{}, false
+	}
+	return s.checked(), true
+}
+
+// checked returns s, or a new session when s is of another schema or has
+// no cylinder, with the cylinder in use within the list.
+func (s SupplySession) checked() SupplySession {
 	if s.Schema != supplySchema || len(s.Cylinders) == 0 {
 		s = defaultSupplySession()
 	}
