@@ -3,7 +3,6 @@ package ui
 import (
 	"errors"
 	"fmt"
-	"strconv"
 	"strings"
 
 	"github.com/shopspring/decimal"
@@ -79,8 +78,8 @@ const (
 	fidLegsList    = "b-leg-list"
 )
 
-func legID(i int, what string) string    { return "b-leg" + strconv.Itoa(i) + "-" + what }
-func supplyID(i int, what string) string { return "b-sup" + strconv.Itoa(i) + "-" + what }
+func legID(i int, what string) string    { return indexedID2("b-leg", i, "-", what) }
+func supplyID(i int, what string) string { return indexedID2("b-sup", i, "-", what) }
 
 // builtInSizes are the CGA letter sizes offered in the Brief.
 var builtInSizes = []physio.CylinderSize{physio.SizeD, physio.SizeE, physio.SizeM, physio.SizeG, physio.SizeH}
@@ -88,7 +87,9 @@ var builtInSizes = []physio.CylinderSize{physio.SizeD, physio.SizeE, physio.Size
 // buildBrief reads the draft under the settings and, when every field is
 // valid, computes the plan.
 func buildBrief(d BriefDraft, st Settings) *briefModel {
-	m := &briefModel{msgs: map[string]string{}, labels: map[string]string{}, paths: map[string]string{}}
+	// Sized for a usual transport (three legs, two cylinder lines), so the
+	// maps do not grow on every keystroke.
+	m := &briefModel{msgs: map[string]string{}, labels: make(map[string]string, 48), paths: make(map[string]string, 64)}
 	doc := &physio.PlanDocument{Version: physio.PlanDocumentVersion}
 	m.doc = doc
 	alt, pu, gas := st.AltitudeUnit, st.PressureUnit, st.GasUnit
@@ -118,42 +119,42 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 		m.fail(fidLegsList, "Legs", "Add at least one leg.")
 	}
 	for i, l := range d.Legs {
-		where := "Leg " + strconv.Itoa(i+1)
-		p := "legs[" + strconv.Itoa(i) + "]"
+		where := indexedID("Leg ", i+1, "")
+		path := func(what string) string { return indexedID2("legs[", i, "]", what) }
 		leg := physio.PlanLeg{Where: l.Where}
-		m.paths[p+".where"] = legID(i, "where")
+		m.paths[path(".where")] = legID(i, "where")
 		if l.Where != physio.WhereOrigin && l.Where != physio.WhereCabin && l.Where != physio.WhereDestination {
 			m.fail(legID(i, "where"), where, fmt.Sprintf("Leg %d: choose where it is (origin, flight or destination).", i+1))
 		}
-		leg.Minutes = m.read(legID(i, "min"), where, p+".minutes", specMinutes, l.Minutes, "min", true)
+		leg.Minutes = m.read(legID(i, "min"), where, path(".minutes"), specMinutes, l.Minutes, "min", true)
 		ox := &physio.PlanOxygen{Device: physio.Device(l.Device)}
 		leg.Oxygen = ox
-		op := p + ".oxygen"
-		m.paths[op] = legID(i, "device")
-		m.paths[op+".device"] = legID(i, "device")
+		op := func(what string) string { return indexedID2("legs[", i, "].oxygen", what) }
+		m.paths[op("")] = legID(i, "device")
+		m.paths[op(".device")] = legID(i, "device")
 		dev := physio.Device(l.Device)
 		switch dev {
 		case physio.RoomAir:
 		case physio.NasalCannula, physio.SimpleMask, physio.NonRebreather:
-			ox.FlowLpm = m.read(legID(i, "flow"), where, op+".flow_lpm", flowSpec(dev), l.Flow, "L/min", true)
+			ox.FlowLpm = m.read(legID(i, "flow"), where, op(".flow_lpm"), flowSpec(dev), l.Flow, "L/min", true)
 		case physio.Venturi:
-			ox.FlowLpm = m.read(legID(i, "flow"), where, op+".flow_lpm", flowSpec(dev), l.Flow, "L/min", true)
-			m.paths[op+".fio2"] = legID(i, "fio2")
+			ox.FlowLpm = m.read(legID(i, "flow"), where, op(".flow_lpm"), flowSpec(dev), l.Flow, "L/min", true)
+			m.paths[op(".fio2")] = legID(i, "fio2")
 			if strings.TrimSpace(l.FiO2.T) == "" {
 				m.fail(legID(i, "fio2"), where, fmt.Sprintf("Leg %d: choose the Venturi valve setting.", i+1))
 			} else {
-				ox.FiO2 = m.read(legID(i, "fio2"), where, op+".fio2", specLegFiO2, l.FiO2, "", true)
+				ox.FiO2 = m.read(legID(i, "fio2"), where, op(".fio2"), specLegFiO2, l.FiO2, "", true)
 			}
 		case physio.Blender, physio.HighFlow:
-			ox.FlowLpm = m.read(legID(i, "flow"), where, op+".flow_lpm", flowSpec(dev), l.Flow, "L/min", true)
-			ox.FiO2 = m.read(legID(i, "fio2"), where, op+".fio2", specLegFiO2, l.FiO2, "", true)
+			ox.FlowLpm = m.read(legID(i, "flow"), where, op(".flow_lpm"), flowSpec(dev), l.Flow, "L/min", true)
+			ox.FiO2 = m.read(legID(i, "fio2"), where, op(".fio2"), specLegFiO2, l.FiO2, "", true)
 		case physio.Ventilator:
-			ox.MinuteVolumeLpm = m.read(legID(i, "mv"), where, op+".minute_volume_lpm", specMinuteVol, l.MinuteVolume, "L/min", true)
-			ox.FiO2 = m.read(legID(i, "fio2"), where, op+".fio2", specLegFiO2, l.FiO2, "", true)
-			ox.BiasFlowLpm = m.read(legID(i, "bias"), where, op+".bias_flow_lpm", specBias, l.BiasFlow, "L/min", false)
-			ox.LeakLpm = m.read(legID(i, "leak"), where, op+".leak_lpm", specLeak, l.Leak, "L/min", false)
-			ox.DriveGasLpm = m.read(legID(i, "drivegas"), where, op+".drive_gas_lpm", specDriveGas, l.DriveGas, "L/min", false)
-			m.paths[op+".drive"] = legID(i, "drive")
+			ox.MinuteVolumeLpm = m.read(legID(i, "mv"), where, op(".minute_volume_lpm"), specMinuteVol, l.MinuteVolume, "L/min", true)
+			ox.FiO2 = m.read(legID(i, "fio2"), where, op(".fio2"), specLegFiO2, l.FiO2, "", true)
+			ox.BiasFlowLpm = m.read(legID(i, "bias"), where, op(".bias_flow_lpm"), specBias, l.BiasFlow, "L/min", false)
+			ox.LeakLpm = m.read(legID(i, "leak"), where, op(".leak_lpm"), specLeak, l.Leak, "L/min", false)
+			ox.DriveGasLpm = m.read(legID(i, "drivegas"), where, op(".drive_gas_lpm"), specDriveGas, l.DriveGas, "L/min", false)
+			m.paths[op(".drive")] = legID(i, "drive")
 			switch physio.Drive(l.Drive) {
 			case physio.DriveBlending, physio.DriveOxygen:
 				ox.Drive = physio.Drive(l.Drive)
@@ -188,10 +189,10 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 	// Cylinders on board.
 	doc.Supply = []physio.PlanSupply{}
 	for i, s := range d.Supply {
-		where := "Cylinders, line " + strconv.Itoa(i+1)
-		p := "supply[" + strconv.Itoa(i) + "]"
-		m.paths[p] = supplyID(i, "kind")
-		m.paths[p+".size"] = supplyID(i, "kind")
+		where := indexedID("Cylinders, line ", i+1, "")
+		path := func(what string) string { return indexedID2("supply[", i, "]", what) }
+		m.paths[path("")] = supplyID(i, "kind")
+		m.paths[path(".size")] = supplyID(i, "kind")
 		line := physio.PlanSupply{}
 		var cyl physio.Cylinder
 		var cylErr error
@@ -200,7 +201,7 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 			line.Size = physio.CylinderSize(s.Kind)
 			cyl, cylErr = physio.FactorCylinder(line.Size)
 		case s.Kind == SupplyWaterCapacity:
-			line.WaterCapacityL = m.read(supplyID(i, "wc"), where, p+".water_capacity_l", specWaterCap, s.WaterCapacity, "L", true)
+			line.WaterCapacityL = m.read(supplyID(i, "wc"), where, path(".water_capacity_l"), specWaterCap, s.WaterCapacity, "L", true)
 			if line.WaterCapacityL == nil {
 				cylErr = errors.New("no water capacity")
 			} else {
@@ -223,15 +224,15 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 			v := wc.InexactFloat64()
 			line.WaterCapacityL = &v
 			line.Name = c.Name
-			m.paths[p+".water_capacity_l"] = supplyID(i, "kind")
+			m.paths[path(".water_capacity_l")] = supplyID(i, "kind")
 			cyl, cylErr = physio.WaterCapacityCylinder(physio.Litres(v))
 		default:
 			m.fail(supplyID(i, "kind"), where, fmt.Sprintf("Cylinders, line %d: choose the cylinder.", i+1))
 			cylErr = errors.New("no kind")
 		}
 		gid := supplyID(i, "pressure")
-		m.paths[p+".pressure_psi"] = gid
-		m.paths[p+".pressure_bar"] = gid
+		m.paths[path(".pressure_psi")] = gid
+		m.paths[path(".pressure_bar")] = gid
 		if cylErr == nil {
 			spec := gaugeSpec(cyl)
 			r := readEntry(spec, s.Pressure, pu, true)
@@ -246,7 +247,7 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 				}
 			}
 		}
-		if c := m.read(supplyID(i, "count"), where, p+".count", specCount, s.Count, "cyl.", true); c != nil {
+		if c := m.read(supplyID(i, "count"), where, path(".count"), specCount, s.Count, "cyl.", true); c != nil {
 			n := int(*c)
 			line.Count = &n
 		}

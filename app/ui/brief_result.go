@@ -158,7 +158,7 @@ func (s *briefState) summary(r *physio.PlanResult) []app.UI {
 			}
 			items = append(items, li.Body(
 				app.Span().ID(w.id+"-sev").Class("b-sev").Text(w.sevText),
-				app.Span().ID(w.id+"-msg").Text(w.msg),
+				app.Span().ID(w.id+"-msg").Text(warnGap+w.msg),
 			))
 		}
 		title := app.H3().ID("b-warn-title").Text("Warnings")
@@ -264,14 +264,19 @@ type warnRow struct {
 	gone                             bool
 }
 
+// warnSlot is the i-th place of the warnings list. Its message is shown
+// after a space (warnGap), which the caller writes.
 func (s *briefState) warnSlot(r *physio.PlanResult, i int) warnRow {
-	id := "b-warn" + strconv.Itoa(i)
+	id := indexedID("b-warn", i, "")
 	if i >= len(r.Warnings) {
 		return warnRow{id: id, gone: true}
 	}
 	w := r.Warnings[i]
-	return warnRow{id: id, severity: w.Severity, code: w.Code, sevText: severityText(w.Severity), msg: " " + s.inUnits(w.Message)}
+	return warnRow{id: id, severity: w.Severity, code: w.Code, sevText: severityText(w.Severity), msg: s.inUnits(w.Message)}
 }
+
+// warnGap stands between a warning's severity and its message.
+const warnGap = " "
 
 // cylRow is the k-th place of the cylinders table as shown.
 type cylRow struct {
@@ -280,13 +285,13 @@ type cylRow struct {
 }
 
 func cylSlot(r *physio.PlanResult, k int) cylRow {
-	id := "b-r-cyl" + strconv.Itoa(k+1)
+	id, usableID := indexedID("b-r-cyl", k+1, ""), indexedID("b-r-cyl", k+1, "-usable")
 	if k >= len(r.Cylinders) {
-		return cylRow{id: id, usable: partFig{id: id + "-usable", label: "usable", gone: true}}
+		return cylRow{id: id, usable: partFig{id: usableID, label: "usable", gone: true}}
 	}
 	cy := r.Cylinders[k]
 	return cylRow{id: id, name: cylName(cy), opened: minuteText(cy.StartMinute), change: changeText(cy, r),
-		usable: explained(id+"-usable", "usable", cy.Explain, "usable_l")}
+		usable: explained(usableID, "usable", cy.Explain, "usable_l")}
 }
 
 func cylName(cy physio.PlanCylinderResult) string {
@@ -449,28 +454,27 @@ func (c *briefLegPart) Render() app.UI {
 	return c.s.legResult(c.I, r.Legs[c.I])
 }
 
-// legFig is one figure of a leg's result: what it is (the end of its id),
-// its label, and its key in the leg's Explain.
+// legFig is one figure of a leg's result: what it is (the end of its id,
+// from its dash), its label, and its key in the leg's Explain.
 type legFig struct{ what, label, key string }
 
 var legFigs = []legFig{
-	{"alt", "Altitude", "altitude_ft"},
-	{"pb", "Barometric pressure", "pressure_mmhg"},
-	{"fio2", "FiO2 needed", "fio2_needed"},
-	{"fio2low", "FiO2 of the set-up (low end)", "fio2_delivered_low"},
-	{"pao2a", "PAO2 at the set-up", "pao2_mmhg"},
-	{"pao2", "PaO2 expected", "pao2_expected_mmhg"},
-	{"spo2", "SpO2 expected", "spo2_expected_percent"},
-	{"lpm", "Oxygen flow", "oxygen_lpm"},
-	{"litres", "Oxygen for the leg", "oxygen_l"},
-	{"cao2", "Oxygen content expected", "cao2_expected_ml_dl"},
+	{"-alt", "Altitude", "altitude_ft"},
+	{"-pb", "Barometric pressure", "pressure_mmhg"},
+	{"-fio2", "FiO2 needed", "fio2_needed"},
+	{"-fio2low", "FiO2 of the set-up (low end)", "fio2_delivered_low"},
+	{"-pao2a", "PAO2 at the set-up", "pao2_mmhg"},
+	{"-pao2", "PaO2 expected", "pao2_expected_mmhg"},
+	{"-spo2", "SpO2 expected", "spo2_expected_percent"},
+	{"-lpm", "Oxygen flow", "oxygen_lpm"},
+	{"-litres", "Oxygen for the leg", "oxygen_l"},
+	{"-cao2", "Oxygen content expected", "cao2_expected_ml_dl"},
 }
 
 // legPartFigs appends the figures of leg i's result, in order, to buf.
 func legPartFigs(i int, l physio.PlanLegResult, buf []partFig) []partFig {
-	pre := legResultID(i, "")
 	for _, lf := range legFigs {
-		buf = append(buf, explained(pre+lf.what, lf.label, l.Explain, lf.key))
+		buf = append(buf, explained(indexedID("b-r-leg", i, lf.what), lf.label, l.Explain, lf.key))
 	}
 	return buf
 }
@@ -501,10 +505,12 @@ func (s *briefState) legKey(i int, l physio.PlanLegResult) string {
 	return b.String()
 }
 
-func legResultID(i int, what string) string { return "b-r-leg" + strconv.Itoa(i) + "-" + what }
+// legResultID is the id of an element of leg i's result; what starts
+// with its dash ("-title"), or is "" for the prefix of them all.
+func legResultID(i int, what string) string { return indexedID("b-r-leg", i, what) }
 
 func (s *briefState) legResult(i int, l physio.PlanLegResult) app.UI {
-	id := func(what string) string { return legResultID(i, what) }
+	id := func(what string) string { return legResultID(i, "-"+what) }
 	lf := legPartFigs(i, l, nil)
 	figs := make([]app.UI, 0, len(lf))
 	for _, f := range lf {
@@ -560,15 +566,23 @@ func optionAt(l physio.PlanLegResult, j int) string {
 }
 
 func optionText(o physio.PlanOption) string {
-	fio2 := o.FiO2Low.String()
-	if o.FiO2High.Cmp(o.FiO2Low.Decimal) != 0 {
-		fio2 += " to " + o.FiO2High.String()
-	}
-	t := deviceName(o.Device) + " at " + o.OxygenLpm.String() + " L/min oxygen"
+	var buf [160]byte
+	b := append(buf[:0], deviceName(o.Device)...)
+	b = append(b, " at "...)
+	b = o.OxygenLpm.AppendText(b)
+	b = append(b, " L/min oxygen"...)
 	if o.TotalLpm.Cmp(o.OxygenLpm.Decimal) != 0 {
-		t += ", " + o.TotalLpm.String() + " L/min total"
+		b = append(b, ", "...)
+		b = o.TotalLpm.AppendText(b)
+		b = append(b, " L/min total"...)
 	}
-	return t + " (FiO2 " + fio2 + ")"
+	b = append(b, " (FiO2 "...)
+	b = o.FiO2Low.AppendText(b)
+	if o.FiO2High.Cmp(o.FiO2Low.Decimal) != 0 {
+		b = append(b, " to "...)
+		b = o.FiO2High.AppendText(b)
+	}
+	return string(append(b, ')'))
 }
 
 func whereText(w string) string {
@@ -907,7 +921,7 @@ func (s *briefState) pack(p *panelPack) {
 			p.attr("data-severity", w.severity, w.id)
 			p.attr("data-code", w.code, w.id)
 			p.text(w.sevText, w.id, "-sev")
-			p.text(w.msg, w.id, "-msg")
+			p.text2(warnGap, w.msg, w.id, "-msg")
 		}
 	}
 	for i, l := range r.Legs {
@@ -950,7 +964,7 @@ func (s *briefState) pack(p *panelPack) {
 
 // packLeg writes out one leg's result (legResult).
 func (s *briefState) packLeg(p *panelPack, i int, l physio.PlanLegResult) {
-	pre := legResultID(i, "")
+	pre := legResultID(i, "-")
 	p.text(legTitle(i, l), pre, "title")
 	p.figs = legPartFigs(i, l, p.figs[:0])
 	for _, f := range p.figs {
