@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"reflect"
 	"strconv"
 	"strings"
 
@@ -106,7 +107,13 @@ func altitudeRules(label string) map[string]rangeRule {
 // expansion for the route.
 type altitude struct {
 	app.Compo
+	altitudeShown
 
+	rendered bool // the first render has read what is saved
+}
+
+// altitudeShown is everything the Altitude screen draws from.
+type altitudeShown struct {
 	settings Settings
 	text     map[string]string // each field as typed
 	unit     map[string]string // the unit each field was typed in
@@ -134,21 +141,54 @@ func (a *altitude) load(st Settings) {
 }
 
 func (a *altitude) OnMount(ctx app.Context) {
-	a.load(LoadSettings(ctx))
-	a.adoptDraft(ctx)
+	parts, found := draftPlan(ctx)
+	if !a.restore(LoadSettings(ctx), parts, found) {
+		// The first render already showed all of it (preload): nothing
+		// to draw again.
+		ctx.PreventUpdate()
+	}
 	ctx.ObserveState(SettingsKey, &a.settings).OnChange(a.showUnits)
 }
 
-// adoptDraft fills the route and the patient from the Brief draft, each
-// when that part of the draft is complete.
-func (a *altitude) adoptDraft(ctx app.Context) {
-	parts, ok := draftPlan(ctx)
+// restore shows the settings st and the Brief draft's parts (found false:
+// no draft), as a new screen would, and reports whether that changed
+// anything drawn.
+func (a *altitude) restore(st Settings, parts draftParts, found bool) bool {
+	next := &altitude{}
+	next.load(st)
+	if found {
+		next.adoptParts(parts)
+	}
+	// The messages of empty required fields, as a render sets them.
+	next.inputs()
+	if reflect.DeepEqual(next.altitudeShown, a.altitudeShown) {
+		return false
+	}
+	a.altitudeShown = next.altitudeShown
+	return true
+}
+
+// preload reads the settings and the Brief draft before the first render,
+// in the browser (see preload.go). Anything it cannot read leaves the
+// defaults, and OnMount's load then renders again as before.
+func (a *altitude) preload() {
+	if !app.IsClient {
+		return
+	}
+	a.preloadFrom(windowStorage{}, theVault)
+}
+
+func (a *altitude) preloadFrom(ls storageGetter, vault *vaultSession) {
+	st, ok := settingsFrom(ls)
 	if !ok {
 		return
 	}
-	a.adoptParts(parts)
+	parts, found := draftPlanFrom(ls, st, vault)
+	a.restore(st, parts, found)
 }
 
+// adoptParts fills the route and the patient from the Brief draft, each
+// when that part of the draft is complete.
 func (a *altitude) adoptParts(parts draftParts) {
 	doc := parts.doc
 	if doc == nil {
@@ -403,6 +443,10 @@ func (a *altitude) field(id string) app.UI {
 }
 
 func (a *altitude) Render() app.UI {
+	if !a.rendered {
+		a.rendered = true
+		a.preload()
+	}
 	in, ok := a.inputs()
 	var res altitudeResult
 	msg := "Correct the marked fields to see the figures."

@@ -135,19 +135,20 @@ func TestSupplyFirstRenderShowsSaved(t *testing.T) {
 	}
 
 	// OnMount, on the component mounted with that first render.
+	useDraftVault(t, nil)
 	p.ctx.Dispatch(func(app.Context) { p.child = s })
 	e.ConsumeAll()
-	before := app.HTMLString(p)
-	if got := htmlText(before, "supply-gauge-unit"); got != UnitBar {
+	if got := htmlText(app.HTMLString(p), "supply-gauge-unit"); got != UnitBar {
 		t.Fatalf("the mounted Supply shows the gauge in %q, want bar", got)
 	}
-	parts, found := draftPlanFrom(ctx.LocalStorage(), LoadSettings(ctx), nil)
+	parts, found := draftPlan(ctx)
 	if s.restore(LoadSettings(ctx), loadSupplySession(ctx), parts, found) {
 		t.Error("OnMount's load finds something the first render did not show")
 	}
+	before := sortedAttrs(rendered(t, s))
 	s.OnMount(p.ctx)
 	e.ConsumeAll()
-	if after := app.HTMLString(p); sortedAttrs(after) != sortedAttrs(before) {
+	if after := sortedAttrs(rendered(t, s)); after != before {
 		t.Errorf("OnMount changed the screen:\nbefore %s\nafter %s", before, after)
 	}
 
