@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 
 	"github.com/shopspring/decimal"
 )
@@ -98,17 +99,30 @@ func ComputePlan(doc *PlanDocument) (*PlanResult, error) {
 	if err := doc.Validate(); err != nil {
 		return nil, err
 	}
+	cylinders := 0
+	for _, s := range doc.Supply {
+		cylinders += planCount(s)
+	}
+	// Slices and maps are made at the size the plan will fill (the Brief
+	// computes a plan on every keystroke, and in wasm each growth is an
+	// allocation and a copy).
+	legs := len(doc.Legs)
 	c := &planComputer{doc: doc, res: &PlanResult{
 		EngineVersion:   EngineVersion,
 		DocumentVersion: doc.Version,
 		Title:           doc.Title,
-		Explain:         map[string]Figure{},
+		Explain:         make(map[string]Figure, planExplainFigures),
 		Caution:         PlanCaution,
-		Assumptions:     []PlanAssumption{},
+		Assumptions:     make([]PlanAssumption, 0, planAssumptionsUsual),
 		Warnings:        []PlanWarning{},
-		Legs:            []PlanLegResult{},
-		Cylinders:       []PlanCylinderResult{},
+		Legs:            make([]PlanLegResult, 0, legs),
+		Cylinders:       make([]PlanCylinderResult, 0, cylinders),
 	}}
+	c.legAlt = make([]Altitude, 0, legs)
+	c.legPB = make([]Pressure, 0, legs)
+	c.legMin = make([]float64, 0, legs)
+	c.legLpm = make([]float64, 0, legs)
+	c.inputs = make([]FigureInput, 0, planInputsFixed+planInputsPerLeg*legs+planInputsPerCylinder*cylinders)
 	c.run()
 	if c.err != nil {
 		return nil, c.err
@@ -116,10 +130,31 @@ func ComputePlan(doc *PlanDocument) (*PlanResult, error) {
 	return c.res, nil
 }
 
+// Sizes a plan's result is made at: the figures in PlanResult.Explain,
+// PlanGroundResult.Explain, each PlanLegResult.Explain and
+// PlanTrappedGasResult.Explain at most; the assumptions of a document that
+// gives no optional value but the patient's; and the figure inputs of the
+// plan as a whole, of each leg and of each cylinder at most. Each is only a
+// size hint: a plan that needs more grows as before.
+const (
+	planExplainFigures    = 11
+	planGroundFigures     = 9
+	planLegFigures        = 11
+	planTrappedGasFigures = 4
+	planAssumptionsUsual  = 8
+	planInputsFixed       = 48
+	planInputsPerLeg      = 23
+	planInputsPerCylinder = 2
+)
+
 type planComputer struct {
 	doc *PlanDocument
 	res *PlanResult
 	err error
+
+	// inputs is the backing array every figure's inputs are copied into:
+	// one allocation per plan instead of one per figure.
+	inputs []FigureInput
 
 	origin, destination Altitude
 	cabin               *Altitude
@@ -143,6 +178,14 @@ func (c *planComputer) stepErr(step string, err error) {
 	}
 }
 
+// legErr records the first failure of a step of leg i. The step's name
+// ("legs[1] PAO2") is written only on a failure: a leg has a dozen steps.
+func (c *planComputer) legErr(i int, step string, err error) {
+	if c.err == nil && err != nil {
+		c.stepErr("legs["+strconv.Itoa(i)+"] "+step, err)
+	}
+}
+
 func (c *planComputer) docErr(path, format string, args ...any) {
 	if c.err == nil {
 		c.err = PlanErrors{{Path: path, Message: fmt.Sprintf(format, args...), Err: ErrImpossible}}
@@ -158,8 +201,26 @@ func (c *planComputer) figure(ex map[string]Figure, key string, x float64, place
 		c.stepErr(key, fmt.Errorf("result is not a finite number: %w", ErrImpossible))
 	}
 	n := Number{d}
-	ex[key] = Figure{Value: n, Unit: unit, Formula: formula, Inputs: inputs, Source: source, Rounding: r.String()}
+	ex[key] = Figure{Value: n, Unit: unit, Formula: formula, Inputs: c.keep(inputs), Source: source, Rounding: r.String()}
 	return n
+}
+
+// keep copies a figure's inputs into the plan's inputs array and returns
+// them there (nil for none, as the variadic call gives). figure does not
+// hold the caller's slice, so each call's inputs stay on its stack. The
+// returned slice is capped at its own length: an append to one figure's
+// inputs can never write into the next one's.
+func (c *planComputer) keep(inputs []FigureInput) []FigureInput {
+	if len(inputs) == 0 {
+		return nil
+	}
+	if cap(c.inputs)-len(c.inputs) < len(inputs) {
+		// Full: start a new array; the figures already made keep theirs.
+		c.inputs = make([]FigureInput, 0, max(planInputsFixed, len(inputs)))
+	}
+	start := len(c.inputs)
+	c.inputs = append(c.inputs, inputs...)
+	return c.inputs[start:len(c.inputs):len(c.inputs)]
 }
 
 func in(name string, x float64, unit string) FigureInput {
@@ -205,8 +266,11 @@ func (c *planComputer) assume(path, value, reason string) {
 	c.res.Assumptions = append(c.res.Assumptions, PlanAssumption{Path: path, Value: value, Reason: reason})
 }
 
-func (c *planComputer) warn(code, severity string, leg int, format string, args ...any) {
-	w := PlanWarning{Code: code, Severity: severity, Message: fmt.Sprintf(format, args...)}
+// warn records a warning. Messages are built by concatenation, not fmt
+// (numbers by Number.String, strconv.Itoa for %d, strconv.FormatFloat 'f'
+// for %.1f: the same text): a plan is computed on every keystroke.
+func (c *planComputer) warn(code, severity string, leg int, msg string) {
+	w := PlanWarning{Code: code, Severity: severity, Message: msg}
 	if leg >= 0 {
 		l := leg
 		w.Leg = &l
@@ -288,7 +352,9 @@ func (c *planComputer) route() {
 			h = *c.cabin
 		}
 		c.legAlt = append(c.legAlt, h)
-		c.legPB = append(c.legPB, c.pressure(fmt.Sprintf("legs[%d] pressure", i), h))
+		p, err := PressureAtAltitude(h)
+		c.legErr(i, "pressure", err)
+		c.legPB = append(c.legPB, p)
 		c.legMin = append(c.legMin, *leg.Minutes)
 	}
 	best := 0
@@ -307,7 +373,7 @@ func (c *planComputer) route() {
 func (c *planComputer) ground() {
 	pt := c.doc.Patient
 	g := &c.res.Ground
-	g.Explain = map[string]Figure{}
+	g.Explain = make(map[string]Figure, planGroundFigures)
 	g.MeasuredAt = pt.MeasuredAt
 	if g.MeasuredAt == "" {
 		g.MeasuredAt = WhereOrigin
@@ -394,11 +460,10 @@ func (c *planComputer) ground() {
 		g.PaO2Source = "from_spo2"
 		g.PaO2MmHg = c.figure(g.Explain, "pao2_arterial_mmhg", pao2.MmHg(), 1, RoundDown, "mmHg",
 			"PaO2 at SpO2 on the standard dissociation curve", srcSevInv, in("SpO2", *pt.SpO2Percent, "%"))
-		c.warn(WarnPaO2FromSpO2, SeverityInfo, -1, "PaO2 %s mmHg estimated from SpO2 %s %% on the standard curve (37 °C, pH 7.40); a measured PaO2 is better",
-			g.PaO2MmHg, fmtPlanNum(*pt.SpO2Percent))
+		spo2 := fmtPlanNum(*pt.SpO2Percent)
+		c.warn(WarnPaO2FromSpO2, SeverityInfo, -1, "PaO2 "+g.PaO2MmHg.String()+" mmHg estimated from SpO2 "+spo2+" % on the standard curve (37 °C, pH 7.40); a measured PaO2 is better")
 		if *pt.SpO2Percent > 97 {
-			c.warn(WarnOutsideValidity, SeverityCaution, -1, "SpO2 %s %% is on the flat top of the dissociation curve: the PaO2 estimated from it (%s mmHg) is unreliable; give a measured PaO2",
-				fmtPlanNum(*pt.SpO2Percent), g.PaO2MmHg)
+			c.warn(WarnOutsideValidity, SeverityCaution, -1, "SpO2 "+spo2+" % is on the flat top of the dissociation curve: the PaO2 estimated from it ("+g.PaO2MmHg.String()+" mmHg) is unreliable; give a measured PaO2")
 		}
 	}
 	ratio, err := AARatio(pao2, alv)
@@ -432,8 +497,8 @@ func (c *planComputer) ground() {
 		g.SpO2Source = "measured"
 		g.SpO2Percent = num(*pt.SpO2Percent, 1, RoundNearest)
 		if pt.PaO2MmHg != nil && math.Abs(sat.Percent()-*pt.SpO2Percent) > planSpO2Disagreement {
-			c.warn(WarnSpO2PaO2Disagree, SeverityCaution, -1, "SpO2 %s %% and PaO2 %s mmHg disagree: the standard curve gives %.1f %% at that PaO2; the plan uses the PaO2 — check both",
-				fmtPlanNum(*pt.SpO2Percent), fmtPlanNum(*pt.PaO2MmHg), sat.Percent())
+			c.warn(WarnSpO2PaO2Disagree, SeverityCaution, -1, "SpO2 "+fmtPlanNum(*pt.SpO2Percent)+" % and PaO2 "+fmtPlanNum(*pt.PaO2MmHg)+
+				" mmHg disagree: the standard curve gives "+strconv.FormatFloat(sat.Percent(), 'f', 1, 64)+" % at that PaO2; the plan uses the PaO2 — check both")
 		}
 	} else {
 		g.SpO2Source = "from_pao2"
@@ -441,8 +506,7 @@ func (c *planComputer) ground() {
 			"S = 1/(23400/(PO2³ + 150·PO2) + 1)", srcSev, in("PaO2", pao2.MmHg(), "mmHg"))
 	}
 	if math.Abs(temp-37) > 1 {
-		c.warn(WarnOutsideValidity, SeverityCaution, -1, "body temperature %s °C: the saturation curve used is the standard one (37 °C, pH 7.40), so expected SpO2 values are approximate",
-			fmtPlanNum(temp))
+		c.warn(WarnOutsideValidity, SeverityCaution, -1, "body temperature "+fmtPlanNum(temp)+" °C: the saturation curve used is the standard one (37 °C, pH 7.40), so expected SpO2 values are approximate")
 	}
 	if pt.HbGPerDL != nil {
 		ct, err := OxygenContent(*pt.HbGPerDL, sat, pao2, DefaultHufner)
@@ -482,11 +546,10 @@ func (c *planComputer) legs() {
 
 func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 	o := leg.Oxygen
-	ex := map[string]Figure{}
+	ex := make(map[string]Figure, planLegFigures)
 	lr := PlanLegResult{Index: i, Label: leg.Label, Where: leg.Where, Device: o.Device, Explain: ex,
 		Minutes: num(c.legMin[i], 2, RoundNearest), Options: []PlanOption{}}
 	h, pb := c.legAlt[i], c.legPB[i]
-	step := func(s string) string { return fmt.Sprintf("legs[%d] %s", i, s) }
 	lr.AltitudeFt = c.figure(ex, "altitude_ft", h.Feet(), 0, RoundUp, "ft", "altitude of "+leg.Where, srcPlan)
 	lr.PressureMmHg = c.figure(ex, "pressure_mmhg", pb.MmHg(), 1, RoundNearest, "mmHg", "P(H), standard atmosphere", srcISA,
 		in("altitude", h.Feet(), "ft"))
@@ -503,7 +566,7 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 		rngSource, lpmFormula = "room air", "no supplemental oxygen"
 	case NasalCannula, SimpleMask, NonRebreather:
 		rng, err = DeviceFiO2(o.Device, Flow(*o.FlowLpm))
-		c.stepErr(step("device FiO2"), err)
+		c.legErr(i, "device FiO2", err)
 		rngSource = srcBTS
 		lpm = *o.FlowLpm
 		lpmInputs = []FigureInput{in("flow", lpm, "L/min")}
@@ -520,7 +583,7 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 		} else {
 			f, err = HighFlowOxygen(Flow(*o.FlowLpm), Fraction(*o.FiO2))
 		}
-		c.stepErr(step("oxygen share"), err)
+		c.legErr(i, "oxygen share", err)
 		lpm = float64(f)
 		lpmFormula, lpmSource = "Q_O2 = Q_total·(FiO2 − 0.21)/0.79", srcBlend
 		lpmInputs = []FigureInput{in("total flow", *o.FlowLpm, "L/min"), in("FiO2", *o.FiO2, "")}
@@ -528,7 +591,7 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 		rng = FiO2Range{Low: Fraction(*o.FiO2), High: Fraction(*o.FiO2)}
 		bias, leak, drive := c.ventDefault(i, "bias_flow_lpm", o.BiasFlowLpm), c.ventDefault(i, "leak_lpm", o.LeakLpm), c.ventDefault(i, "drive_gas_lpm", o.DriveGasLpm)
 		f, err := VentilatorOxygen(o.Drive, Flow(*o.MinuteVolumeLpm), Flow(bias), Flow(leak), Flow(drive), Fraction(*o.FiO2))
-		c.stepErr(step("ventilator oxygen"), err)
+		c.legErr(i, "ventilator oxygen", err)
 		lpm = float64(f)
 		lpmFormula, lpmSource = "(V̇E + bias + leak)·(FiO2 − 0.21)/0.79 + drive gas", srcVent
 		if o.Drive == DriveOxygen {
@@ -536,8 +599,8 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 		}
 		lpmInputs = []FigureInput{in("minute volume", *o.MinuteVolumeLpm, "L/min"), in("bias flow", bias, "L/min"),
 			in("leak", leak, "L/min"), in("drive gas", drive, "L/min"), in("FiO2", *o.FiO2, "")}
-		c.warn(WarnVentilatorEstimate, SeverityInfo, i, "leg %d: ventilator oxygen use %.1f L/min is an estimate (%s drive); the ventilator's own consumption figure wins",
-			i+1, lpm, o.Drive)
+		c.warn(WarnVentilatorEstimate, SeverityInfo, i, "leg "+strconv.Itoa(i+1)+": ventilator oxygen use "+strconv.FormatFloat(lpm, 'f', 1, 64)+
+			" L/min is an estimate ("+string(o.Drive)+" drive); the ventilator's own consumption figure wins")
 	}
 	if c.err != nil {
 		return lr
@@ -553,27 +616,27 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 	alv, err := AlveolarPO2(rng.Low, pb, c.ph2o, c.paco2, c.rq)
 	if err != nil {
 		if !errors.Is(err, ErrImpossible) {
-			c.stepErr(step("PAO2"), err)
+			c.legErr(i, "PAO2", err)
 			return lr
 		}
 		alv = 0
-		c.warn(WarnNoAlveolarOxygen, SeverityNoGo, i, "leg %d (%s, %s ft): at FiO2 %s no oxygen reaches the alveoli (PAO2 below zero)",
-			i+1, leg.Where, lr.AltitudeFt, lr.FiO2DeliveredLow)
+		c.warn(WarnNoAlveolarOxygen, SeverityNoGo, i, planLegWhere(i, leg.Where, lr.AltitudeFt)+": at FiO2 "+lr.FiO2DeliveredLow.String()+
+			" no oxygen reaches the alveoli (PAO2 below zero)")
 	}
 	lr.PAO2MmHg = c.figure(ex, "pao2_mmhg", alv.MmHg(), 1, RoundDown, "mmHg", "PAO2 = FiO2·(PB − PH2O) − PaCO2/R", srcAlveolar,
 		in("FiO2 (low end)", float64(rng.Low), ""), in("PB", pb.MmHg(), "mmHg"), in("PH2O", c.ph2o.MmHg(), "mmHg"),
 		in("PaCO2", c.paco2.MmHg(), "mmHg"), in("R", c.rq, ""))
 	pao2, err := PaO2ByAARatio(c.aaRatio, alv)
-	c.stepErr(step("PaO2"), err)
+	c.legErr(i, "PaO2", err)
 	lr.PaO2ExpectedMmHg = c.figure(ex, "pao2_expected_mmhg", pao2.MmHg(), 1, RoundDown, "mmHg", "PaO2 = (a/A)·PAO2", srcAA,
 		in("a/A", c.aaRatio, ""), in("PAO2", alv.MmHg(), "mmHg"))
 	sat, err := Saturation(pao2)
-	c.stepErr(step("saturation"), err)
+	c.legErr(i, "saturation", err)
 	lr.SpO2ExpectedPercent = c.figure(ex, "spo2_expected_percent", sat.Percent(), 1, RoundDown, "%",
 		"S = 1/(23400/(PO2³ + 150·PO2) + 1)", srcSev, in("PaO2", pao2.MmHg(), "mmHg"))
 	if hb := c.doc.Patient.HbGPerDL; hb != nil {
 		ct, err := OxygenContent(*hb, sat, pao2, DefaultHufner)
-		c.stepErr(step("oxygen content"), err)
+		c.legErr(i, "oxygen content", err)
 		n := c.figure(ex, "cao2_expected_ml_dl", ct, 1, RoundDown, "mL/dL", "CaO2 = 1.34·Hb·SaO2 + 0.003·PaO2", srcContent,
 			in("Hb", *hb, "g/dL"), in("SaO2", sat.Value(), ""), in("PaO2", pao2.MmHg(), "mmHg"))
 		lr.ContentMLPerDL = &n
@@ -582,35 +645,46 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 	// FiO2 needed to hold the ground state.
 	need, err := FiO2ToMatch(c.groundFiO2, c.groundPB, pb, c.ph2o)
 	if err != nil && !errors.Is(err, ErrImpossible) {
-		c.stepErr(step("FiO2 needed"), err)
+		c.legErr(i, "FiO2 needed", err)
 		return lr
 	}
 	lr.FiO2Needed = c.figure(ex, "fio2_needed", float64(need), 2, RoundUp, "",
 		"FiO2 = FiO2_ground·(PB_ground − PH2O)/(PB − PH2O)", srcInspired,
 		in("FiO2 ground", float64(c.groundFiO2), ""), in("PB ground", c.groundPB.MmHg(), "mmHg"),
 		in("PB", pb.MmHg(), "mmHg"), in("PH2O", c.ph2o.MmHg(), "mmHg"))
-	lr.FiO2Possible = err == nil && lr.FiO2Needed.Cmp(num(1, 0, RoundNearest).Decimal) <= 0
+	lr.FiO2Possible = err == nil && lr.FiO2Needed.Cmp(planFiO2Pure) <= 0
 	lr.Delivers = lr.FiO2Possible && lr.FiO2DeliveredLow.Cmp(lr.FiO2Needed.Decimal) >= 0
-	where := fmt.Sprintf("leg %d (%s, %s ft)", i+1, leg.Where, lr.AltitudeFt)
 	switch {
 	case !lr.FiO2Possible:
-		c.warn(WarnFiO2Unreachable, SeverityNoGo, i, "%s: FiO2 %s would be needed to hold the ground state; even FiO2 1.0 cannot", where, lr.FiO2Needed)
+		c.warn(WarnFiO2Unreachable, SeverityNoGo, i, planLegWhere(i, leg.Where, lr.AltitudeFt)+": FiO2 "+lr.FiO2Needed.String()+
+			" would be needed to hold the ground state; even FiO2 1.0 cannot")
 	case !lr.Delivers:
 		lr.Options = planOptions(o, lr.FiO2Needed)
-		c.warn(WarnSetUpBelowNeed, SeverityNoGo, i, "%s: %s may deliver FiO2 %s, below the %s needed to hold the ground state; %d option(s) listed",
-			where, o.Device, lr.FiO2DeliveredLow, lr.FiO2Needed, len(lr.Options))
+		c.warn(WarnSetUpBelowNeed, SeverityNoGo, i, planLegWhere(i, leg.Where, lr.AltitudeFt)+": "+string(o.Device)+" may deliver FiO2 "+lr.FiO2DeliveredLow.String()+
+			", below the "+lr.FiO2Needed.String()+" needed to hold the ground state; "+strconv.Itoa(len(lr.Options))+" option(s) listed")
 	}
 	if lr.SpO2ExpectedPercent.InexactFloat64() < target {
-		c.warn(WarnSpO2BelowTarget, SeverityCaution, i, "%s: expected SpO2 %s %% is below the %s %% target", where, lr.SpO2ExpectedPercent, fmtPlanNum(target))
+		c.warn(WarnSpO2BelowTarget, SeverityCaution, i, planLegWhere(i, leg.Where, lr.AltitudeFt)+": expected SpO2 "+lr.SpO2ExpectedPercent.String()+
+			" % is below the "+fmtPlanNum(target)+" % target")
 	}
 	return lr
+}
+
+// planFiO2Pure is FiO2 1.0 at the two places FiO2 is rounded to, so that
+// comparing a rounded FiO2 with it needs no rescaling (Cmp would allocate).
+// Nothing writes to it.
+var planFiO2Pure = decimal.New(100, -2)
+
+// planLegWhere names leg i in a warning: "leg 2 (cabin, 7111 ft)".
+func planLegWhere(i int, where string, altitudeFt Number) string {
+	return "leg " + strconv.Itoa(i+1) + " (" + where + ", " + altitudeFt.String() + " ft)"
 }
 
 func (c *planComputer) ventDefault(leg int, key string, p *float64) float64 {
 	if p != nil {
 		return *p
 	}
-	c.assume(fmt.Sprintf("legs[%d].oxygen.%s", leg, key), "0", "not given: taken as 0 L/min")
+	c.assume("legs["+strconv.Itoa(leg)+"].oxygen."+key, "0", "not given: taken as 0 L/min")
 	return 0
 }
 
@@ -636,7 +710,7 @@ func planOptions(o *PlanOxygen, needed Number) []PlanOption {
 		if err == nil {
 			op := PlanOption{Device: Ventilator, OxygenLpm: num(float64(f), 1, RoundUp), TotalLpm: num(ve+bias+leak, 1, RoundNearest),
 				FiO2Low: needed, FiO2High: needed}
-			op.Label = fmt.Sprintf("option: ventilator FiO2 raised to %s, other settings unchanged: %s L/min oxygen (%s drive)", needed, op.OxygenLpm, o.Drive)
+			op.Label = "option: ventilator FiO2 raised to " + needed.String() + ", other settings unchanged: " + op.OxygenLpm.String() + " L/min oxygen (" + string(o.Drive) + " drive)"
 			out = append(out, op)
 		}
 		return out
@@ -652,7 +726,7 @@ func planOptions(o *PlanOxygen, needed Number) []PlanOption {
 		if err == nil {
 			op := PlanOption{Device: o.Device, OxygenLpm: num(float64(f), 1, RoundUp), TotalLpm: num(sameTotal, 1, RoundNearest),
 				FiO2Low: needed, FiO2High: needed}
-			op.Label = fmt.Sprintf("option: %s FiO2 raised to %s at the same %s L/min total: %s L/min oxygen", o.Device, needed, op.TotalLpm, op.OxygenLpm)
+			op.Label = "option: " + string(o.Device) + " FiO2 raised to " + needed.String() + " at the same " + op.TotalLpm.String() + " L/min total: " + op.OxygenLpm.String() + " L/min oxygen"
 			out = append(out, op)
 		}
 	}
@@ -757,17 +831,17 @@ func (c *planComputer) limits() {
 		r.MaxCruiseAltitudeFt = &n
 	}
 	if !possible {
-		msg := fmt.Sprintf("FiO2 1.0 holds the ground state up to %s ft", r.MaxCabinAltitudeFt)
+		msg := "FiO2 1.0 holds the ground state up to " + r.MaxCabinAltitudeFt.String() + " ft"
 		if r.MaxCruiseAltitudeFt != nil {
-			msg += fmt.Sprintf(" of cabin altitude, that is a cruise at or below %s ft with this aircraft", r.MaxCruiseAltitudeFt)
+			msg += " of cabin altitude, that is a cruise at or below " + r.MaxCruiseAltitudeFt.String() + " ft with this aircraft"
 		}
 		for _, l := range r.Legs {
 			if !l.FiO2Possible && l.Where != WhereCabin {
-				msg += fmt.Sprintf("; the %s field (%s ft) is itself above that: no cabin setting helps there", l.Where, l.AltitudeFt)
+				msg += "; the " + l.Where + " field (" + l.AltitudeFt.String() + " ft) is itself above that: no cabin setting helps there"
 				break
 			}
 		}
-		c.warn(WarnFiO2Unreachable, SeverityNoGo, -1, "%s", msg)
+		c.warn(WarnFiO2Unreachable, SeverityNoGo, -1, msg)
 	}
 
 	c.unplannedFields()
@@ -780,11 +854,11 @@ func (c *planComputer) limits() {
 		}
 		if l.Where == WhereCabin && !cabinWarned {
 			cabinWarned = true
-			c.warn(WarnCabinAbove8000Ft, SeverityCaution, i, "cabin altitude %s ft is above the 8000 ft limit of normal operation (14 CFR 25.841(a))", l.AltitudeFt)
+			c.warn(WarnCabinAbove8000Ft, SeverityCaution, i, "cabin altitude "+l.AltitudeFt.String()+" ft is above the 8000 ft limit of normal operation (14 CFR 25.841(a))")
 		}
 		if l.Where != WhereCabin && !fieldWarned[l.Where] {
 			fieldWarned[l.Where] = true
-			c.warn(WarnFieldAbove8000Ft, SeverityCaution, i, "the %s field at %s ft is above 8000 ft", l.Where, l.AltitudeFt)
+			c.warn(WarnFieldAbove8000Ft, SeverityCaution, i, "the "+l.Where+" field at "+l.AltitudeFt.String()+" ft is above 8000 ft")
 		}
 	}
 }
@@ -824,14 +898,13 @@ func (c *planComputer) unplannedFields() {
 		}
 		needed := num(float64(need), 2, RoundUp)
 		ft := num(f.alt.Feet(), 0, RoundUp)
-		if err != nil || needed.Cmp(decimal.NewFromInt(1)) > 0 {
+		field := "the " + f.where + " field (" + ft.String() + " ft) has no leg in the plan and is higher than every leg: FiO2 " + needed.String()
+		if err != nil || needed.Cmp(planFiO2Pure) > 0 {
 			r.FiO2Possible = false
-			c.warn(WarnFiO2Unreachable, SeverityNoGo, -1, "the %s field (%s ft) has no leg in the plan and is higher than every leg: FiO2 %s would be needed there to hold the ground state; even FiO2 1.0 cannot",
-				f.where, ft, needed)
+			c.warn(WarnFiO2Unreachable, SeverityNoGo, -1, field+" would be needed there to hold the ground state; even FiO2 1.0 cannot")
 			continue
 		}
-		c.warn(WarnFieldAboveLegs, SeverityCaution, -1, "the %s field (%s ft) has no leg in the plan and is higher than every leg: FiO2 %s is needed there to hold the ground state; add a %s leg with its set-up",
-			f.where, ft, needed, f.where)
+		c.warn(WarnFieldAboveLegs, SeverityCaution, -1, field+" is needed there to hold the ground state; add a "+f.where+" leg with its set-up")
 	}
 }
 
@@ -867,10 +940,6 @@ func (c *planComputer) oxygen() {
 	r.ReserveMinutes = num(reserveMin, 0, RoundNearest)
 	r.ResidualPsi = num(policy.Residual.Psi(), 0, RoundNearest)
 	r.ResidualBar = num(policy.Residual.Bar(), 1, RoundNearest)
-	residualText := r.ResidualPsi.String() + " psi"
-	if pol.ResidualBar != nil {
-		residualText = r.ResidualBar.String() + " bar"
-	}
 
 	calc, maxFlow, lastFlow := 0.0, 0.0, 0.0
 	for i, lpm := range c.legLpm {
@@ -890,46 +959,50 @@ func (c *planComputer) oxygen() {
 		in("highest leg flow", maxFlow, "L/min"))
 
 	// Cylinders in the order listed, each line's count in turn.
-	var usable []float64
+	usable := make([]float64, 0, cap(r.Cylinders))
 	total := 0.0
 	for si, s := range c.doc.Supply {
-		cyl, gauge, desc := planCylinder(s)
-		count := 1
-		if s.Count != nil {
-			count = *s.Count
-		} else {
-			c.assume(fmt.Sprintf("supply[%d].count", si), "1", "not given: one cylinder")
+		cyl, gauge := planCylinder(s)
+		count := planCount(s)
+		if s.Count == nil {
+			c.assume("supply["+strconv.Itoa(si)+"].count", "1", "not given: one cylinder")
 		}
 		u, err := cyl.Usable(gauge, policy.Residual)
 		if err != nil {
 			if c.err == nil {
-				c.err = PlanErrors{{Path: fmt.Sprintf("supply[%d]", si), Message: trimPrefix(err), Err: ErrOutOfRange}}
+				c.err = PlanErrors{{Path: "supply[" + strconv.Itoa(si) + "]", Message: trimPrefix(err), Err: ErrOutOfRange}}
 			}
 			return
 		}
+		lineName := s.Name
+		if lineName == "" {
+			lineName = planCylinderDesc(s)
+		}
+		formula := cyl.Method() + ", above the residual"
 		for k := 0; k < count; k++ {
-			ex := map[string]Figure{}
-			name := s.Name
-			if name == "" {
-				name = desc
-			}
+			ex := make(map[string]Figure, 1)
+			name := lineName
 			if count > 1 {
-				name = fmt.Sprintf("%s #%d", name, k+1)
+				name += " #" + strconv.Itoa(k+1)
 			}
 			cr := PlanCylinderResult{Order: len(r.Cylinders) + 1, Supply: si, Copy: k + 1, Name: name, Explain: ex}
-			cr.UsableL = c.figure(ex, "usable_l", u.Litres(), 0, RoundDown, "L", cyl.Method()+", above the residual", srcCylinder,
+			cr.UsableL = c.figure(ex, "usable_l", u.Litres(), 0, RoundDown, "L", formula, srcCylinder,
 				in("gauge", gaugeValue(s), gaugeUnit(s)), in("residual", policy.Residual.Psi(), "psi"))
 			usable = append(usable, cr.UsableL.InexactFloat64())
 			total += cr.UsableL.InexactFloat64()
 			if u <= 0 {
-				c.warn(WarnCylinderAtResidual, SeverityCaution, -1, "%s is at or below the %s residual: no usable oxygen", name, residualText)
+				residual := r.ResidualPsi.String() + " psi"
+				if pol.ResidualBar != nil {
+					residual = r.ResidualBar.String() + " bar"
+				}
+				c.warn(WarnCylinderAtResidual, SeverityCaution, -1, name+" is at or below the "+residual+" residual: no usable oxygen")
 			}
 			r.Cylinders = append(r.Cylinders, cr)
 		}
 	}
 	r.OxygenUsableL = c.figure(r.Explain, "oxygen_usable_l", total, 0, RoundDown, "L",
 		"sum of each cylinder's usable litres (each rounded down)", srcCylinder, in("residual", policy.Residual.Psi(), "psi"))
-	r.OxygenMarginL = c.figure(r.Explain, "oxygen_margin_l", r.OxygenUsableL.Sub(r.OxygenNeededL.Decimal).InexactFloat64(), 0, RoundDown, "L",
+	r.OxygenMarginL = c.figure(r.Explain, "oxygen_margin_l", planDifference(r.OxygenUsableL, r.OxygenNeededL), 0, RoundDown, "L",
 		"usable − needed with reserve", srcPlan, in("usable", r.OxygenUsableL.InexactFloat64(), "L"), in("needed", r.OxygenNeededL.InexactFloat64(), "L"))
 	if r.OxygenMarginL.Sign() < 0 {
 		calcN := r.OxygenCalculatedL
@@ -937,8 +1010,8 @@ func (c *planComputer) oxygen() {
 		if r.OxygenUsableL.Cmp(calcN.Decimal) >= 0 {
 			cover = "covers the calculated need but not the reserve"
 		}
-		c.warn(WarnSupplyShort, SeverityNoGo, -1, "supply short by %s L: %s L needed with reserve, %s L usable above the residual (%s)",
-			r.OxygenMarginL.Neg(), r.OxygenNeededL, r.OxygenUsableL, cover)
+		c.warn(WarnSupplyShort, SeverityNoGo, -1, "supply short by "+r.OxygenMarginL.Neg().String()+" L: "+r.OxygenNeededL.String()+
+			" L needed with reserve, "+r.OxygenUsableL.String()+" L usable above the residual ("+cover+")")
 	}
 	c.timeline(usable, lastFlow)
 }
@@ -959,7 +1032,7 @@ func (c *planComputer) timeline(usable []float64, lastFlow float64) {
 		lg := leg
 		r.Cylinders[idx].ChangeLeg = &lg
 		if leg >= 0 && c.doc.Legs[leg].Where == WhereCabin && idx+1 < len(usable) {
-			c.warn(WarnChangeInFlight, SeverityInfo, leg, "%s reaches its residual at minute %s, in flight (leg %d): have the next cylinder ready", r.Cylinders[idx].Name, m, leg+1)
+			c.warn(WarnChangeInFlight, SeverityInfo, leg, r.Cylinders[idx].Name+" reaches its residual at minute "+m.String()+", in flight (leg "+strconv.Itoa(leg+1)+"): have the next cylinder ready")
 		}
 		idx++
 		if idx < len(usable) {
@@ -1010,24 +1083,57 @@ func (c *planComputer) timeline(usable []float64, lastFlow float64) {
 	}
 }
 
-func planCylinder(s PlanSupply) (Cylinder, Pressure, string) {
+// planCylinder returns a supply line's cylinder and gauge reading.
+func planCylinder(s PlanSupply) (Cylinder, Pressure) {
 	var cyl Cylinder
-	var desc string
 	switch {
 	case s.Size != "":
 		cyl, _ = FactorCylinder(s.Size)
-		desc = string(s.Size) + " cylinder"
 	case s.WaterCapacityL != nil:
 		cyl, _ = WaterCapacityCylinder(Litres(*s.WaterCapacityL))
-		desc = fmtPlanNum(*s.WaterCapacityL) + " L cylinder"
 	default:
 		cyl, _ = LabelledCylinder(Litres(*s.LabelContentsL), Bar(*s.LabelPressureBar))
+	}
+	if s.PressurePsi != nil {
+		return cyl, Psi(*s.PressurePsi)
+	}
+	return cyl, Bar(*s.PressureBar)
+}
+
+// planCylinderDesc names a supply line that has no name of its own: "E
+// cylinder at 1900 psi". Made only then, not for every line.
+func planCylinderDesc(s PlanSupply) string {
+	var desc string
+	switch {
+	case s.Size != "":
+		desc = string(s.Size) + " cylinder"
+	case s.WaterCapacityL != nil:
+		desc = fmtPlanNum(*s.WaterCapacityL) + " L cylinder"
+	default:
 		desc = fmtPlanNum(*s.LabelContentsL) + " L (label) cylinder"
 	}
 	if s.PressurePsi != nil {
-		return cyl, Psi(*s.PressurePsi), desc + " at " + fmtPlanNum(*s.PressurePsi) + " psi"
+		return desc + " at " + fmtPlanNum(*s.PressurePsi) + " psi"
 	}
-	return cyl, Bar(*s.PressureBar), desc + " at " + fmtPlanNum(*s.PressureBar) + " bar"
+	return desc + " at " + fmtPlanNum(*s.PressureBar) + " bar"
+}
+
+// planCount is the number of cylinders of a supply line (1 when not given).
+func planCount(s PlanSupply) int {
+	if s.Count != nil {
+		return *s.Count
+	}
+	return 1
+}
+
+// planDifference returns a − b as a.Sub(b).InexactFloat64() does, without
+// making the decimal when both are whole numbers below 10¹⁵ (every plan's
+// litres): float64 holds them, and their difference, exactly.
+func planDifference(a, b Number) float64 {
+	if a.Exponent() == 0 && b.Exponent() == 0 && a.NumDigits() <= 15 && b.NumDigits() <= 15 {
+		return float64(a.CoefficientInt64()) - float64(b.CoefficientInt64())
+	}
+	return a.Sub(b.Decimal).InexactFloat64()
 }
 
 func gaugeValue(s PlanSupply) float64 {
@@ -1048,7 +1154,7 @@ func gaugeUnit(s PlanSupply) string {
 func (c *planComputer) trappedGas() {
 	r := c.res
 	tg := &r.TrappedGas
-	tg.Explain = map[string]Figure{}
+	tg.Explain = make(map[string]Figure, planTrappedGasFigures)
 	tg.Caution = TrappedGasCaution
 	from, to := c.pressure("origin pressure", c.origin), c.legPB[r.HighestLeg]
 	if c.err != nil {
@@ -1058,22 +1164,22 @@ func (c *planComputer) trappedGas() {
 	tg.ToAltitudeFt = r.HighestAltitudeFt
 	ratio, err := ExpansionRatio(from, to)
 	c.stepErr("expansion ratio", err)
-	inputs := []FigureInput{in("P origin", from.MmHg(), "mmHg"), in("P highest", to.MmHg(), "mmHg")}
-	tg.Ratio = c.figure(tg.Explain, "ratio", ratio, 3, RoundUp, "", "V2/V1 = P1/P2", srcBoyle, inputs...)
+	pOrigin, pHighest := in("P origin", from.MmHg(), "mmHg"), in("P highest", to.MmHg(), "mmHg")
+	tg.Ratio = c.figure(tg.Explain, "ratio", ratio, 3, RoundUp, "", "V2/V1 = P1/P2", srcBoyle, pOrigin, pHighest)
 	r.GasExpansionRatio = tg.Ratio
 	r.Explain["gas_expansion_ratio"] = tg.Explain["ratio"]
 	tg.CuffMl = num(planCuffMl, 0, RoundNearest)
 	cuff, err := ExpandedVolume(Millilitres(planCuffMl), from, to)
 	c.stepErr("cuff expansion", err)
 	tg.CuffAtAltitudeMl = c.figure(tg.Explain, "cuff_at_altitude_ml", cuff.Millilitres(), 1, RoundUp, "mL",
-		"V2 = V1·P1/P2 (a free pocket; a cuff's pressure rises instead)", srcMann, append(inputs, in("V1", planCuffMl, "mL"))...)
+		"V2 = V1·P1/P2 (a free pocket; a cuff's pressure rises instead)", srcMann, pOrigin, pHighest, in("V1", planCuffMl, "mL"))
 	tg.PneumothoraxMl = num(planPneumothoraxMl, 0, RoundNearest)
 	ptx, err := ExpandedVolume(Millilitres(planPneumothoraxMl), from, to)
 	c.stepErr("pneumothorax expansion", err)
 	tg.PneumothoraxAltitudeMl = c.figure(tg.Explain, "pneumothorax_at_altitude_ml", ptx.Millilitres(), 0, RoundUp, "mL",
-		"V2 = V1·P1/P2", srcBoyle, append(inputs, in("V1", planPneumothoraxMl, "mL"))...)
+		"V2 = V1·P1/P2", srcBoyle, pOrigin, pHighest, in("V1", planPneumothoraxMl, "mL"))
 	over, err := RigidSpaceOverpressure(0, from, to)
 	c.stepErr("rigid space overpressure", err)
 	tg.RigidOverpressureCmH2O = c.figure(tg.Explain, "rigid_overpressure_cmh2o", over.CmH2O(), 0, RoundUp, "cmH2O",
-		"overpressure = P1 − P2 (sealed rigid space, upper bound)", srcBoyle, inputs...)
+		"overpressure = P1 − P2 (sealed rigid space, upper bound)", srcBoyle, pOrigin, pHighest)
 }
