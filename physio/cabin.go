@@ -1,6 +1,6 @@
 package physio
 
-import "fmt"
+import "strconv"
 
 // CabinAltitudeLimit is the highest cabin altitude of normal operation for
 // transport-category aircraft, 8 000 ft (14 CFR 25.841(a)).
@@ -65,6 +65,12 @@ func CabinAltitude(cruise Altitude, maxDifferential Pressure, floor Altitude) (A
 	return Altitude(altitudeAt(cabinPressure)), nil
 }
 
+// maxCruiseCeilingQuantity names the quantity of MaxCruiseAltitude's
+// error at the model ceiling. Made once: a plan for an aircraft that can
+// hold the cabin up to the ceiling meets it on every computation.
+var maxCruiseCeilingQuantity = "ambient pressure at the highest cruise altitude (model ceiling " +
+	strconv.FormatFloat(float64(MaxModelAltitude), 'g', -1, 64) + " m)"
+
 // MaxCruiseAltitude returns the highest cruise altitude, in metres
 // (geopotential), at which an aircraft holding at most maxDifferential keeps
 // its cabin at or below cabinLimit.
@@ -95,7 +101,7 @@ func MaxCruiseAltitude(cabinLimit Altitude, maxDifferential Pressure) (Altitude,
 	ambient := pressureAt(float64(cabinLimit)) - float64(maxDifferential)
 	if ambient < pressureAtMaxAltitude {
 		return MaxModelAltitude, &RangeError{
-			Quantity: fmt.Sprintf("ambient pressure at the highest cruise altitude (model ceiling %g m)", float64(MaxModelAltitude)),
+			Quantity: maxCruiseCeilingQuantity,
 			Value:    ambient, Min: pressureAtMaxAltitude, Max: pressureAtMinAltitude, Unit: "Pa"}
 	}
 	return Altitude(altitudeAt(ambient)), nil

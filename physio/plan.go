@@ -118,10 +118,9 @@ func ComputePlan(doc *PlanDocument) (*PlanResult, error) {
 		Legs:            make([]PlanLegResult, 0, legs),
 		Cylinders:       make([]PlanCylinderResult, 0, cylinders),
 	}}
-	c.legAlt = make([]Altitude, 0, legs)
-	c.legPB = make([]Pressure, 0, legs)
-	c.legMin = make([]float64, 0, legs)
-	c.legLpm = make([]float64, 0, legs)
+	c.perLeg = make([]planLegState, 0, legs)
+	c.numbers = make([]Number, 0, planOptionalNumbers+legs+2*cylinders)
+	c.ints = make([]int, 0, cylinders+legs)
 	c.inputs = make([]FigureInput, 0, planInputsFixed+planInputsPerLeg*legs+planInputsPerCylinder*cylinders)
 	c.run()
 	if c.err != nil {
@@ -165,10 +164,46 @@ type planComputer struct {
 	groundFiO2          Fraction
 	groundPB            Pressure
 	aaRatio             float64
-	legAlt              []Altitude
-	legPB               []Pressure
-	legLpm              []float64
-	legMin              []float64
+	perLeg              []planLegState
+
+	// numbers and ints hold what the result's *Number and *int fields
+	// point to (optional figures, cylinder minutes, a warning's leg): one
+	// array per plan instead of one allocation per pointer. Each pointer
+	// is to its own element; a full array is replaced, never grown, so
+	// no pointer moves.
+	numbers []Number
+	ints    []int
+}
+
+// planLegState is what the later steps use of each leg.
+type planLegState struct {
+	alt     Altitude
+	pb      Pressure
+	minutes float64
+	lpm     float64 // oxygen flow, set by leg
+}
+
+// planOptionalNumbers is the number of optional figures a plan holds
+// besides those of its legs and cylinders (cabin and max cruise altitude,
+// supply exhausted, expected A-a gradient, ground oxygen content).
+const planOptionalNumbers = 5
+
+// optional returns a pointer to a copy of n, for a *Number field.
+func (c *planComputer) optional(n Number) *Number {
+	if len(c.numbers) == cap(c.numbers) {
+		c.numbers = make([]Number, 0, planOptionalNumbers)
+	}
+	c.numbers = append(c.numbers, n)
+	return &c.numbers[len(c.numbers)-1]
+}
+
+// optionalInt returns a pointer to a copy of i, for an *int field.
+func (c *planComputer) optionalInt(i int) *int {
+	if len(c.ints) == cap(c.ints) {
+		c.ints = make([]int, 0, planOptionalNumbers)
+	}
+	c.ints = append(c.ints, i)
+	return &c.ints[len(c.ints)-1]
 }
 
 // stepErr records the first failure of a step.
@@ -272,8 +307,7 @@ func (c *planComputer) assume(path, value, reason string) {
 func (c *planComputer) warn(code, severity string, leg int, msg string) {
 	w := PlanWarning{Code: code, Severity: severity, Message: msg}
 	if leg >= 0 {
-		l := leg
-		w.Leg = &l
+		w.Leg = c.optionalInt(leg)
 	}
 	c.res.Warnings = append(c.res.Warnings, w)
 }
@@ -324,7 +358,7 @@ func (c *planComputer) route() {
 		c.cabin = &h
 		n := c.figure(c.res.Explain, "cabin_altitude_ft", h.Feet(), 0, RoundUp, "ft",
 			"cabin altitude as stated", srcPilot, in("stated cabin altitude", *r.CabinAltitudeFt, "ft"))
-		c.res.CabinAltitudeFt = &n
+		c.res.CabinAltitudeFt = c.optional(n)
 	case r.CruiseAltitudeFt != nil:
 		h, err := CabinAltitude(Feet(*r.CruiseAltitudeFt), c.dp, c.origin)
 		if err != nil {
@@ -339,7 +373,7 @@ func (c *planComputer) route() {
 		n := c.figure(c.res.Explain, "cabin_altitude_ft", h.Feet(), 0, RoundUp, "ft", formula, srcCabin,
 			in("cruise altitude", *r.CruiseAltitudeFt, "ft"), in("max differential", c.dp.Psi(), "psi"),
 			in("origin elevation", *r.OriginElevationFt, "ft"))
-		c.res.CabinAltitudeFt = &n
+		c.res.CabinAltitudeFt = c.optional(n)
 	}
 	for i, leg := range c.doc.Legs {
 		var h Altitude
@@ -351,20 +385,18 @@ func (c *planComputer) route() {
 		default:
 			h = *c.cabin
 		}
-		c.legAlt = append(c.legAlt, h)
 		p, err := PressureAtAltitude(h)
 		c.legErr(i, "pressure", err)
-		c.legPB = append(c.legPB, p)
-		c.legMin = append(c.legMin, *leg.Minutes)
+		c.perLeg = append(c.perLeg, planLegState{alt: h, pb: p, minutes: *leg.Minutes})
 	}
 	best := 0
-	for i, h := range c.legAlt {
-		if h > c.legAlt[best] {
+	for i, l := range c.perLeg {
+		if l.alt > c.perLeg[best].alt {
 			best = i
 		}
 	}
 	c.res.HighestLeg = best
-	c.res.HighestAltitudeFt = c.figure(c.res.Explain, "highest_altitude_ft", c.legAlt[best].Feet(), 0, RoundUp, "ft",
+	c.res.HighestAltitudeFt = c.figure(c.res.Explain, "highest_altitude_ft", c.perLeg[best].alt.Feet(), 0, RoundUp, "ft",
 		"highest of the legs' altitudes (origin, cabin, destination)", srcPlan,
 		in("origin elevation", c.origin.Feet(), "ft"), in("destination elevation", c.destination.Feet(), "ft"))
 }
@@ -488,7 +520,7 @@ func (c *planComputer) ground() {
 		c.stepErr("expected A-a gradient", err)
 		n := c.figure(g.Explain, "expected_aa_gradient_mmhg", e.MmHg(), 1, RoundUp, "mmHg",
 			"upper normal A-a gradient breathing air = age/4 + 4", srcAaAge, in("age", *pt.AgeYears, "years"))
-		g.ExpectedAaGradient = &n
+		g.ExpectedAaGradient = c.optional(n)
 	}
 
 	sat, err := Saturation(pao2)
@@ -513,7 +545,7 @@ func (c *planComputer) ground() {
 		c.stepErr("ground oxygen content", err)
 		n := c.figure(g.Explain, "cao2_ml_dl", ct, 1, RoundDown, "mL/dL", "CaO2 = 1.34·Hb·SaO2 + 0.003·PaO2", srcContent,
 			in("Hb", *pt.HbGPerDL, "g/dL"), in("SaO2", sat.Value(), ""), in("PaO2", pao2.MmHg(), "mmHg"))
-		g.ContentMLPerDL = &n
+		g.ContentMLPerDL = c.optional(n)
 	}
 }
 
@@ -535,7 +567,7 @@ func (c *planComputer) legs() {
 	for i, leg := range c.doc.Legs {
 		lr := c.leg(i, leg, target)
 		lr.StartMinute = num(start, 0, RoundDown)
-		start += c.legMin[i]
+		start += c.perLeg[i].minutes
 		c.res.Legs = append(c.res.Legs, lr)
 		if c.err != nil {
 			return
@@ -548,9 +580,9 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 	o := leg.Oxygen
 	ex := make(map[string]Figure, planLegFigures)
 	lr := PlanLegResult{Index: i, Label: leg.Label, Where: leg.Where, Device: o.Device, Explain: ex,
-		Minutes: num(c.legMin[i], 2, RoundNearest), Options: []PlanOption{}}
-	h, pb := c.legAlt[i], c.legPB[i]
-	lr.AltitudeFt = c.figure(ex, "altitude_ft", h.Feet(), 0, RoundUp, "ft", "altitude of "+leg.Where, srcPlan)
+		Minutes: num(c.perLeg[i].minutes, 2, RoundNearest), Options: []PlanOption{}}
+	h, pb, minutes := c.perLeg[i].alt, c.perLeg[i].pb, c.perLeg[i].minutes
+	lr.AltitudeFt = c.figure(ex, "altitude_ft", h.Feet(), 0, RoundUp, "ft", planAltitudeOf(leg.Where), srcPlan)
 	lr.PressureMmHg = c.figure(ex, "pressure_mmhg", pb.MmHg(), 1, RoundNearest, "mmHg", "P(H), standard atmosphere", srcISA,
 		in("altitude", h.Feet(), "ft"))
 
@@ -607,10 +639,10 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 	}
 	lr.FiO2DeliveredLow = c.figure(ex, "fio2_delivered_low", float64(rng.Low), 2, RoundDown, "", "low end of the set-up's FiO2", rngSource)
 	lr.FiO2DeliveredHigh = c.figure(ex, "fio2_delivered_high", float64(rng.High), 2, RoundUp, "", "high end of the set-up's FiO2", rngSource)
-	c.legLpm = append(c.legLpm, lpm)
+	c.perLeg[i].lpm = lpm
 	lr.OxygenLpm = c.figure(ex, "oxygen_lpm", lpm, 2, RoundUp, "L/min", lpmFormula, lpmSource, lpmInputs...)
-	lr.OxygenL = c.figure(ex, "oxygen_l", lpm*c.legMin[i], 0, RoundUp, "L", "oxygen flow × minutes", srcPlan,
-		in("oxygen flow", lpm, "L/min"), in("minutes", c.legMin[i], "min"))
+	lr.OxygenL = c.figure(ex, "oxygen_l", lpm*minutes, 0, RoundUp, "L", "oxygen flow × minutes", srcPlan,
+		in("oxygen flow", lpm, "L/min"), in("minutes", minutes, "min"))
 
 	// Alveolar, arterial and saturation at the low end of the set-up.
 	alv, err := AlveolarPO2(rng.Low, pb, c.ph2o, c.paco2, c.rq)
@@ -639,7 +671,7 @@ func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 		c.legErr(i, "oxygen content", err)
 		n := c.figure(ex, "cao2_expected_ml_dl", ct, 1, RoundDown, "mL/dL", "CaO2 = 1.34·Hb·SaO2 + 0.003·PaO2", srcContent,
 			in("Hb", *hb, "g/dL"), in("SaO2", sat.Value(), ""), in("PaO2", pao2.MmHg(), "mmHg"))
-		lr.ContentMLPerDL = &n
+		lr.ContentMLPerDL = c.optional(n)
 	}
 
 	// FiO2 needed to hold the ground state.
@@ -817,18 +849,19 @@ func (c *planComputer) limits() {
 		in("FiO2 ground", float64(c.groundFiO2), ""), in("PB ground", c.groundPB.MmHg(), "mmHg"), in("PH2O", c.ph2o.MmHg(), "mmHg"))
 	if c.res.Pressurised {
 		cruise, err := MaxCruiseAltitude(maxCabin, c.dp)
-		formula := "H_cruise = H(P(max cabin) − max differential)"
+		const cruiseFormula = "H_cruise = H(P(max cabin) − max differential)"
+		formula := cruiseFormula
 		if err != nil {
 			if !errors.Is(err, ErrOutOfRange) {
 				c.stepErr("highest cruise altitude", err)
 				return
 			}
-			formula += "; limited by the model ceiling (20 000 m)"
+			formula = cruiseFormula + "; limited by the model ceiling (20 000 m)"
 			r.MaxCruiseAtCeiling = true
 		}
 		n := c.figure(r.Explain, "max_cruise_altitude_ft", cruise.Feet(), 0, RoundDown, "ft", formula, srcCabin,
 			in("max cabin altitude", maxCabin.Feet(), "ft"), in("max differential", c.dp.Psi(), "psi"))
-		r.MaxCruiseAltitudeFt = &n
+		r.MaxCruiseAltitudeFt = c.optional(n)
 	}
 	if !possible {
 		msg := "FiO2 1.0 holds the ground state up to " + r.MaxCabinAltitudeFt.String() + " ft"
@@ -870,7 +903,7 @@ func (c *planComputer) limits() {
 // skipped (the ground FiO2 holds there by definition).
 func (c *planComputer) unplannedFields() {
 	r := c.res
-	highest := c.legAlt[r.HighestLeg]
+	highest := c.perLeg[r.HighestLeg].alt
 	for _, f := range []struct {
 		where string
 		alt   Altitude
@@ -942,10 +975,10 @@ func (c *planComputer) oxygen() {
 	r.ResidualBar = num(policy.Residual.Bar(), 1, RoundNearest)
 
 	calc, maxFlow, lastFlow := 0.0, 0.0, 0.0
-	for i, lpm := range c.legLpm {
-		calc += lpm * c.legMin[i]
-		maxFlow = math.Max(maxFlow, lpm)
-		lastFlow = lpm
+	for _, l := range c.perLeg {
+		calc += l.lpm * l.minutes
+		maxFlow = math.Max(maxFlow, l.lpm)
+		lastFlow = l.lpm
 	}
 	r.OxygenCalculatedL = c.figure(r.Explain, "oxygen_calculated_l", calc, 0, RoundUp, "L", "sum over legs of oxygen flow × minutes", srcPlan)
 	need, err := policy.Required(Litres(calc), Flow(maxFlow))
@@ -978,7 +1011,7 @@ func (c *planComputer) oxygen() {
 		if lineName == "" {
 			lineName = planCylinderDesc(s)
 		}
-		formula := cyl.Method() + ", above the residual"
+		formula := planUsableFormula(cyl.Method())
 		for k := 0; k < count; k++ {
 			ex := make(map[string]Figure, 1)
 			name := lineName
@@ -1023,22 +1056,19 @@ func (c *planComputer) timeline(usable []float64, lastFlow float64) {
 	idx, left, t := 0, 0.0, 0.0
 	if len(usable) > 0 {
 		left = usable[0]
-		zero := num(0, 0, RoundDown)
-		r.Cylinders[0].StartMinute = &zero
+		r.Cylinders[0].StartMinute = c.optional(num(0, 0, RoundDown))
 	}
 	change := func(leg int) {
 		m := num(t, 0, RoundDown)
-		r.Cylinders[idx].ChangeMinute = &m
-		lg := leg
-		r.Cylinders[idx].ChangeLeg = &lg
+		r.Cylinders[idx].ChangeMinute = c.optional(m)
+		r.Cylinders[idx].ChangeLeg = c.optionalInt(leg)
 		if leg >= 0 && c.doc.Legs[leg].Where == WhereCabin && idx+1 < len(usable) {
 			c.warn(WarnChangeInFlight, SeverityInfo, leg, r.Cylinders[idx].Name+" reaches its residual at minute "+m.String()+", in flight (leg "+strconv.Itoa(leg+1)+"): have the next cylinder ready")
 		}
 		idx++
 		if idx < len(usable) {
 			left = usable[idx]
-			s := m
-			r.Cylinders[idx].StartMinute = &s
+			r.Cylinders[idx].StartMinute = c.optional(m)
 		}
 	}
 	// Cylinders with nothing usable are passed over at the start.
@@ -1046,15 +1076,15 @@ func (c *planComputer) timeline(usable []float64, lastFlow float64) {
 		change(0)
 	}
 	exhausted := false
-	for i, lpm := range c.legLpm {
-		remaining := c.legMin[i]
+	for i, l := range c.perLeg {
+		lpm, remaining := l.lpm, l.minutes
 		for remaining > 0 {
 			if lpm <= 0 || idx >= len(usable) {
 				if lpm > 0 && !exhausted {
 					exhausted = true
 					m := c.figure(r.Explain, "supply_exhausted_minute", t, 0, RoundDown, "min",
 						"minute the last cylinder reaches its residual, legs' flows in order", srcPlan)
-					r.SupplyExhaustedMin = &m
+					r.SupplyExhaustedMin = c.optional(m)
 				}
 				t += remaining
 				break
@@ -1079,7 +1109,7 @@ func (c *planComputer) timeline(usable []float64, lastFlow float64) {
 		m := c.figure(r.Explain, "supply_exhausted_minute", t+rest/lastFlow, 0, RoundDown, "min",
 			"end of the transport + remaining usable litres / last leg's flow", srcPlan,
 			in("end of transport", t, "min"), in("remaining usable", rest, "L"), in("last leg's flow", lastFlow, "L/min"))
-		r.SupplyExhaustedMin = &m
+		r.SupplyExhaustedMin = c.optional(m)
 	}
 }
 
@@ -1116,6 +1146,36 @@ func planCylinderDesc(s PlanSupply) string {
 		return desc + " at " + fmtPlanNum(*s.PressurePsi) + " psi"
 	}
 	return desc + " at " + fmtPlanNum(*s.PressureBar) + " bar"
+}
+
+// planAltitudeOf is a leg's altitude formula: "altitude of cabin". The
+// texts are constants, not concatenated per leg.
+func planAltitudeOf(where string) string {
+	switch where {
+	case WhereOrigin:
+		return "altitude of " + WhereOrigin
+	case WhereCabin:
+		return "altitude of " + WhereCabin
+	case WhereDestination:
+		return "altitude of " + WhereDestination
+	}
+	return "altitude of " + where
+}
+
+// planUsableFormula is a cylinder's usable-litres formula: its method,
+// "above the residual". The texts are constants, not concatenated per
+// cylinder.
+func planUsableFormula(method string) string {
+	const above = ", above the residual"
+	switch method {
+	case CylinderMethodFactor:
+		return CylinderMethodFactor + above
+	case CylinderMethodWaterCapacity:
+		return CylinderMethodWaterCapacity + above
+	case CylinderMethodLabel:
+		return CylinderMethodLabel + above
+	}
+	return method + above
 }
 
 // planCount is the number of cylinders of a supply line (1 when not given).
@@ -1156,7 +1216,7 @@ func (c *planComputer) trappedGas() {
 	tg := &r.TrappedGas
 	tg.Explain = make(map[string]Figure, planTrappedGasFigures)
 	tg.Caution = TrappedGasCaution
-	from, to := c.pressure("origin pressure", c.origin), c.legPB[r.HighestLeg]
+	from, to := c.pressure("origin pressure", c.origin), c.perLeg[r.HighestLeg].pb
 	if c.err != nil {
 		return
 	}
