@@ -65,16 +65,16 @@ func probePhases(p *program, rate float64, wait time.Duration) error {
 	if err := c.do(120*time.Second, chromedp.Navigate(p.origin+"/")); err != nil {
 		return err
 	}
-	ms, _ := waitInteractive(c, alvea)
+	ms, marked, _ := waitInteractive(c, alvea)
 	ph, _ := evalJS[map[string]float64](c, phasesJS)
-	fmt.Printf("%s first %.0f %v\n", p.Name, ms, ph)
+	fmt.Printf("%s first %.0f (marker %.0f) %v\n", p.Name, ms, marked, ph)
 	evalJS[bool](c, `navigator.serviceWorker.ready.then(() => true)`)
 	time.Sleep(wait)
 	for i := 0; i < 5; i++ {
 		c.do(120*time.Second, chromedp.Reload())
-		ms, _ := waitInteractive(c, alvea)
+		ms, marked, _ := waitInteractive(c, alvea)
 		ph, _ := evalJS[map[string]float64](c, phasesJS)
-		fmt.Printf("%s warm %.0f %v\n", p.Name, ms, ph)
+		fmt.Printf("%s warm %.0f (marker %.0f) %v\n", p.Name, ms, marked, ph)
 		time.Sleep(wait)
 	}
 	return nil
