@@ -28,7 +28,16 @@ type frame struct {
 	updateLater   bool
 }
 
-func newFrame(path string) *frame { return newFrameOn(path, theVault) }
+// newFrame returns the frame of a screen, with the saved settings read
+// before its first render (its theme and the auto-lock time are then
+// right from the start; OnMount loads them again the usual way).
+func newFrame(path string) *frame {
+	f := newFrameOn(path, theVault)
+	if st, ok := preloadSettings(); ok {
+		f.settings = st
+	}
+	return f
+}
 
 // newFrameOn returns the frame on a given vault session (tests).
 func newFrameOn(path string, session *vaultSession) *frame {
