@@ -1,6 +1,7 @@
 package physio
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -35,6 +36,13 @@ const (
 const (
 	planCuffMl         = 10.0
 	planPneumothoraxMl = 500.0
+)
+
+// The worked volumes as the result shows them, made once (decimals are
+// never changed in place; see planZeros).
+var (
+	planCuffNumber         = num(planCuffMl, 0, RoundNearest)
+	planPneumothoraxNumber = num(planPneumothoraxMl, 0, RoundNearest)
 )
 
 // PlanCaution is the caution shown with every plan.
@@ -281,9 +289,26 @@ func planRound(x float64, places int32, r Rounding) (decimal.Decimal, bool) {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return decimal.Zero, false
 	}
+	v, ok := planScaled(x, places, r)
+	if !ok {
+		return Round(x, places, r)
+	}
+	if v == 0 && places >= 0 && int(places) < len(planZeros) {
+		return planZeros[places], true
+	}
+	return decimal.New(v, -places), true
+}
+
+// planScaled is planRound's result as a whole number of 10^-places, where
+// it is one (ok false for a non-number, or a scaled value beyond 10¹², which
+// planRound hands to Round).
+func planScaled(x float64, places int32, r Rounding) (int64, bool) {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return 0, false
+	}
 	s := x * math.Pow10(int(places))
 	if math.Abs(s) > 1e12 {
-		return Round(x, places, r)
+		return 0, false
 	}
 	s = math.Round(s*1e6) / 1e6
 	switch r {
@@ -294,7 +319,25 @@ func planRound(x float64, places int32, r Rounding) (decimal.Decimal, bool) {
 	default:
 		s = math.Round(s)
 	}
-	return decimal.New(int64(s), -places), true
+	return int64(s), true
+}
+
+// planZeros is zero at 0 to 3 places, as planRound makes it. A decimal is
+// never changed in place (every operation and accessor of decimal.Decimal
+// copies its big.Int), so one zero per exponent serves every plan; nothing
+// writes to these after package start, so concurrent plans share them
+// safely. A plan has a few zeros (start minutes, margins).
+var planZeros = [...]decimal.Decimal{decimal.New(0, 0), decimal.New(0, -1), decimal.New(0, -2), decimal.New(0, -3)}
+
+// planCmpRounded compares n with x rounded as num(x, places, r) would (-1,
+// 0, +1, like Cmp), without making that decimal when n is a whole number of
+// 10^-places: the options and the cabin limit compare many values they
+// never keep.
+func planCmpRounded(n Number, x float64, places int32, r Rounding) int {
+	if v, ok := planScaled(x, places, r); ok && n.Exponent() == -places && n.NumDigits() <= 18 {
+		return cmp.Compare(n.CoefficientInt64(), v)
+	}
+	return n.Cmp(num(x, places, r).Decimal)
 }
 
 func (c *planComputer) assume(path, value, reason string) {
@@ -767,14 +810,14 @@ func planOptions(o *PlanOxygen, needed Number) []PlanOption {
 		lo, hi, _ := DeviceFlowRange(d)
 		for f := float64(lo); f <= float64(hi); f++ {
 			r, err := DeviceFiO2(d, Flow(f))
-			if err == nil && num(float64(r.Low), 2, RoundDown).Cmp(needed.Decimal) >= 0 {
+			if err == nil && planCmpRounded(needed, float64(r.Low), 2, RoundDown) <= 0 {
 				others = append(others, SetUp{Device: d, Flow: Flow(f), FiO2: r, TotalFlow: Flow(f)})
 				break
 			}
 		}
 	}
 	for _, v := range VenturiSettings {
-		if num(float64(v), 2, RoundDown).Cmp(needed.Decimal) >= 0 {
+		if planCmpRounded(needed, float64(v), 2, RoundDown) <= 0 {
 			if min, err := VenturiMinimumFlow(v); err == nil {
 				if total, err := VenturiTotalFlow(min, v); err == nil {
 					others = append(others, SetUp{Device: Venturi, Flow: min, FiO2: FiO2Range{v, v}, TotalFlow: total})
@@ -879,10 +922,10 @@ func (c *planComputer) limits() {
 
 	c.unplannedFields()
 
-	limit := num(CabinAltitudeLimit.Feet(), 0, RoundNearest)
+	limitFt := CabinAltitudeLimit.Feet()
 	cabinWarned, fieldWarned := false, map[string]bool{}
 	for i, l := range r.Legs {
-		if l.AltitudeFt.Cmp(limit.Decimal) <= 0 {
+		if planCmpRounded(l.AltitudeFt, limitFt, 0, RoundNearest) <= 0 {
 			continue
 		}
 		if l.Where == WhereCabin && !cabinWarned {
@@ -1220,7 +1263,11 @@ func (c *planComputer) trappedGas() {
 	if c.err != nil {
 		return
 	}
-	tg.FromAltitudeFt = num(c.origin.Feet(), 0, RoundNearest)
+	if r.Ground.MeasuredAt == WhereOrigin {
+		tg.FromAltitudeFt = r.Ground.AltitudeFt // the same rounding of the same altitude
+	} else {
+		tg.FromAltitudeFt = num(c.origin.Feet(), 0, RoundNearest)
+	}
 	tg.ToAltitudeFt = r.HighestAltitudeFt
 	ratio, err := ExpansionRatio(from, to)
 	c.stepErr("expansion ratio", err)
@@ -1228,12 +1275,12 @@ func (c *planComputer) trappedGas() {
 	tg.Ratio = c.figure(tg.Explain, "ratio", ratio, 3, RoundUp, "", "V2/V1 = P1/P2", srcBoyle, pOrigin, pHighest)
 	r.GasExpansionRatio = tg.Ratio
 	r.Explain["gas_expansion_ratio"] = tg.Explain["ratio"]
-	tg.CuffMl = num(planCuffMl, 0, RoundNearest)
+	tg.CuffMl = planCuffNumber
 	cuff, err := ExpandedVolume(Millilitres(planCuffMl), from, to)
 	c.stepErr("cuff expansion", err)
 	tg.CuffAtAltitudeMl = c.figure(tg.Explain, "cuff_at_altitude_ml", cuff.Millilitres(), 1, RoundUp, "mL",
 		"V2 = V1·P1/P2 (a free pocket; a cuff's pressure rises instead)", srcMann, pOrigin, pHighest, in("V1", planCuffMl, "mL"))
-	tg.PneumothoraxMl = num(planPneumothoraxMl, 0, RoundNearest)
+	tg.PneumothoraxMl = planPneumothoraxNumber
 	ptx, err := ExpandedVolume(Millilitres(planPneumothoraxMl), from, to)
 	c.stepErr("pneumothorax expansion", err)
 	tg.PneumothoraxAltitudeMl = c.figure(tg.Explain, "pneumothorax_at_altitude_ml", ptx.Millilitres(), 0, RoundUp, "mL",
