@@ -138,14 +138,12 @@ func ComputePlan(doc *PlanDocument) (*PlanResult, error) {
 }
 
 // Sizes a plan's result is made at: the figures in PlanResult.Explain,
-// PlanGroundResult.Explain, each PlanLegResult.Explain and
-// PlanTrappedGasResult.Explain at most; the assumptions of a document that
+// each PlanLegResult.Explain and PlanTrappedGasResult.Explain at most; the assumptions of a document that
 // gives no optional value but the patient's; and the figure inputs of the
 // plan as a whole, of each leg and of each cylinder at most. Each is only a
 // size hint: a plan that needs more grows as before.
 const (
 	planExplainFigures    = 11
-	planGroundFigures     = 9
 	planLegFigures        = 11
 	planTrappedGasFigures = 4
 	planAssumptionsUsual  = 8
@@ -448,7 +446,7 @@ func (c *planComputer) route() {
 func (c *planComputer) ground() {
 	pt := c.doc.Patient
 	g := &c.res.Ground
-	g.Explain = make(map[string]Figure, planGroundFigures)
+	g.Explain = make(map[string]Figure, planGroundFigureCount(&c.doc.Patient))
 	g.MeasuredAt = pt.MeasuredAt
 	if g.MeasuredAt == "" {
 		g.MeasuredAt = WhereOrigin
@@ -590,6 +588,24 @@ func (c *planComputer) ground() {
 			in("Hb", *pt.HbGPerDL, "g/dL"), in("SaO2", sat.Value(), ""), in("PaO2", pao2.MmHg(), "mmHg"))
 		g.ContentMLPerDL = c.optional(n)
 	}
+}
+
+// planGroundFigureCount is the number of figures ground records for pt,
+// exactly: a map of up to 8 is a single group, half the memory of the next
+// size, and the usual ground state has 7.
+func planGroundFigureCount(pt *PlanPatient) int {
+	n := 5 // pressure, water vapour, PAO2, a/A ratio, A-a gradient
+	for _, p := range []*float64{pt.PaO2MmHg, pt.SpO2Percent} {
+		if p == nil {
+			n++ // PaO2 from SpO2, or SpO2 from PaO2
+		}
+	}
+	for _, p := range []*float64{pt.AgeYears, pt.HbGPerDL} {
+		if p != nil {
+			n++ // expected A-a gradient, oxygen content
+		}
+	}
+	return n
 }
 
 // planSpO2Disagreement is how far, in SpO2 points, a measured SpO2 may lie
