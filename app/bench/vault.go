@@ -4,8 +4,6 @@ package main
 
 import (
 	"context"
-	"encoding/base64"
-	"encoding/json"
 	"fmt"
 	"time"
 
@@ -58,44 +56,16 @@ func seedVault(c *chrome, n int) error {
 	if err != nil {
 		return err
 	}
-	type rec struct {
-		K    uint64 `json:"k"`
-		I, B string // base64
+	var recs []idb.SeedRecord
+	for _, it := range items {
+		body, err := store.Body(ctx, it.Seq)
+		if err != nil {
+			return err
+		}
+		recs = append(recs, idb.SeedRecord{Seq: it.Seq, Index: it.Index, Body: body})
 	}
-	enc := base64.StdEncoding.EncodeToString
-	const chunk = 2500
-	for from := 0; from < len(items); from += chunk {
-		var recs []rec
-		for _, it := range items[from:min(from+chunk, len(items))] {
-			body, err := store.Body(ctx, it.Seq)
-			if err != nil {
-				return err
-			}
-			recs = append(recs, rec{K: it.Seq, I: enc(it.Index), B: enc(body)})
-		}
-		js, _ := json.Marshal(recs)
-		meta := "null"
-		if from+chunk >= len(items) {
-			meta = fmt.Sprintf(`{h: %q, d: %q}`, enc(header), enc(head))
-		}
-		if _, err := evalJS[bool](c, `(async () => {
-			const dec = s => Uint8Array.from(atob(s), c => c.charCodeAt(0));
-			const db = await new Promise((res, rej) => {
-				const r = indexedDB.open(`+fmt.Sprintf("%q", idb.DBName)+`, 1);
-				r.onupgradeneeded = () => { for (const s of ["meta", "index", "body"]) r.result.createObjectStore(s); };
-				r.onsuccess = () => res(r.result); r.onerror = () => rej(r.error);
-			});
-			const tx = db.transaction(["meta", "index", "body"], "readwrite");
-			for (const r of `+string(js)+`) {
-				tx.objectStore("index").add(dec(r.I), r.k);
-				tx.objectStore("body").add(dec(r.B), r.k);
-			}
-			const meta = `+meta+`;
-			if (meta) { tx.objectStore("meta").put(dec(meta.h), "header"); tx.objectStore("meta").put(dec(meta.d), "head"); }
-			await new Promise((res, rej) => { tx.oncomplete = res; tx.onerror = () => rej(tx.error); tx.onabort = () => rej(tx.error); });
-			db.close();
-			return true;
-		})()`); err != nil {
+	for _, script := range idb.SeedScripts(recs, header, head) {
+		if _, err := evalJS[bool](c, script); err != nil {
 			return fmt.Errorf("seeding IndexedDB: %w", err)
 		}
 	}

@@ -5,8 +5,6 @@ package e2e
 import (
 	"bytes"
 	"context"
-	"encoding/base64"
-	"encoding/json"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -630,41 +628,12 @@ func seedVault(t *testing.T, b *browser, n int) {
 			t.Fatal(err)
 		}
 	}
-	type rec struct {
-		K    int    `json:"k"`
-		I, B string // base64
+	recs := make([]idb.SeedRecord, 0, len(store.recs))
+	for _, r := range store.recs {
+		recs = append(recs, idb.SeedRecord{Seq: r.Seq, Index: r.Index, Body: r.Body})
 	}
-	enc := base64.StdEncoding.EncodeToString
-	const chunk = 2500
-	for from := 0; from < len(store.recs); from += chunk {
-		var recs []rec
-		for _, r := range store.recs[from:min(from+chunk, len(store.recs))] {
-			recs = append(recs, rec{K: int(r.Seq), I: enc(r.Index), B: enc(r.Body)})
-		}
-		js, _ := json.Marshal(recs)
-		last := from+chunk >= len(store.recs)
-		meta := "null"
-		if last {
-			meta = fmt.Sprintf(`{h: %q, d: %q}`, enc(store.header), enc(store.head))
-		}
-		eval[bool](b, `(async () => {
-			const dec = s => Uint8Array.from(atob(s), c => c.charCodeAt(0));
-			const db = await new Promise((res, rej) => {
-				const r = indexedDB.open(`+fmt.Sprintf("%q", idb.DBName)+`, 1);
-				r.onupgradeneeded = () => { for (const s of ["meta", "index", "body"]) r.result.createObjectStore(s); };
-				r.onsuccess = () => res(r.result); r.onerror = () => rej(r.error);
-			});
-			const tx = db.transaction(["meta", "index", "body"], "readwrite");
-			for (const r of `+string(js)+`) {
-				tx.objectStore("index").add(dec(r.I), r.k);
-				tx.objectStore("body").add(dec(r.B), r.k);
-			}
-			const meta = `+meta+`;
-			if (meta) { tx.objectStore("meta").put(dec(meta.h), "header"); tx.objectStore("meta").put(dec(meta.d), "head"); }
-			await new Promise((res, rej) => { tx.oncomplete = res; tx.onerror = () => rej(tx.error); tx.onabort = () => rej(tx.error); });
-			db.close();
-			return true;
-		})()`)
+	for _, script := range idb.SeedScripts(recs, store.header, store.head) {
+		eval[bool](b, script)
 	}
 }
 

@@ -11,12 +11,6 @@ import (
 )
 
 const (
-	dbVersion  = 1
-	storeMeta  = "meta"
-	storeIndex = "index"
-	storeBody  = "body"
-	keyHeader  = "header"
-	keyHead    = "head"
 	// sidePrefix + name keys a side slot in the meta store. Side names are
 	// a-z, 0-9 and '-' (logbook.CheckSideName), so no slot key can be
 	// "header" or "head".
