@@ -138,10 +138,11 @@ func ComputePlan(doc *PlanDocument) (*PlanResult, error) {
 }
 
 // Sizes a plan's result is made at: the figures in PlanResult.Explain,
-// each PlanLegResult.Explain and PlanTrappedGasResult.Explain at most; the assumptions of a document that
-// gives no optional value but the patient's; and the figure inputs of the
-// plan as a whole, of each leg and of each cylinder at most. Each is only a
-// size hint: a plan that needs more grows as before.
+// each PlanLegResult.Explain and PlanTrappedGasResult.Explain at most; the
+// assumptions of a document that gives no optional value but the
+// patient's; and the figure inputs of the plan as a whole, of each leg and
+// of each cylinder at most. Each is only a size hint: a plan that needs
+// more grows as before.
 const (
 	planExplainFigures    = 11
 	planLegFigures        = 11
