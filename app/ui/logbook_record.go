@@ -83,6 +83,9 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 		l.problem = "Not saved yet: the logbook is busy (" + strings.TrimSuffix(l.busy, "…") + "). Your entry is still here; tap save again in a moment."
 		return
 	}
+	// The last "Saved …" line goes: left beside a refusal of this entry,
+	// it would read as if this one had been saved.
+	l.status = ""
 	e, err := build()
 	if err != nil {
 		l.problem = err.Error()
