@@ -10,6 +10,8 @@ import (
 
 	"github.com/chromedp/cdproto/storage"
 	"github.com/chromedp/chromedp"
+
+	"alvea/app/logbook/idb"
 )
 
 // quotaMessage is the Logbook's sentence for a write the store refused for
@@ -77,6 +79,23 @@ func (b *browser) freeDisk(origin string) {
 	b.t.Helper()
 	b.setQuota(origin, nil)
 	eval[bool](b, fmt.Sprintf(`new Promise(res => { const r = indexedDB.deleteDatabase(%q); r.onsuccess = () => res(true); r.onerror = () => res(false); })`, probeDB))
+}
+
+// storedSeqs returns, as "index [1 2 …] body [1 2 …]", the record
+// numbers the vault's database holds in its index and body stores (read
+// with a connection of the test's own: reading needs no space). A record
+// half written would show in one list and not the other.
+func (b *browser) storedSeqs() string {
+	b.t.Helper()
+	return eval[string](b, fmt.Sprintf(`(async () => {
+		const req = r => new Promise((res, rej) => { r.onsuccess = () => res(r.result); r.onerror = () => rej(r.error); });
+		const db = await req(indexedDB.open(%q));
+		const tx = db.transaction(["index", "body"], "readonly");
+		const index = await req(tx.objectStore("index").getAllKeys());
+		const body = await req(tx.objectStore("body").getAllKeys());
+		db.close();
+		return "index [" + index.join(" ") + "] body [" + body.join(" ") + "]";
+	})()`, idb.DBName))
 }
 
 // press taps the element with the CSS selector after scrolling it to the
@@ -211,6 +230,9 @@ func TestLogbookFullDisk(t *testing.T) {
 	if !b.exists("#lb-lock") {
 		t.Error("after the refusals the logbook is no longer unlocked")
 	}
+	if got, want := b.storedSeqs(), "index [1 2 3 4] body [1 2 3 4]"; got != want {
+		t.Errorf("after the refusals the database holds %s, want %s", got, want)
+	}
 
 	// Space again: the same taps save each entry, once.
 	b.freeDisk(srv.Origin())
@@ -254,11 +276,18 @@ func TestLogbookFullDisk(t *testing.T) {
 			t.Errorf("start of transport on a full disk: %s holds %q, want %q", field, got, want)
 		}
 	}
+	if got, want := b.storedSeqs(), "index [1 2 3 4 5 6 7 8 9] body [1 2 3 4 5 6 7 8 9]"; got != want {
+		t.Errorf("after the refused start the database holds %s, want %s", got, want)
+	}
 	b.freeDisk(srv.Origin())
 	b.press("#lb-start-go")
 	b.waitLB("the transport started", `!document.querySelector(".lb-busy") && (document.querySelector("#lb-status")?.textContent ?? "").startsWith("Saved start of transport as R10 ")`, 20*time.Second)
 	if got := b.savedSeqs(); len(got) != 1 || got[0] != 10 {
 		t.Errorf("the retried start: the timeline shows %v, want [10]", got)
+	}
+
+	if got, want := b.storedSeqs(), "index [1 2 3 4 5 6 7 8 9 10] body [1 2 3 4 5 6 7 8 9 10]"; got != want {
+		t.Errorf("after the retries the database holds %s, want %s", got, want)
 	}
 
 	// Reload and unlock: everything saved is there, once, and verifies.
