@@ -285,7 +285,6 @@ func TestLogbookFullDisk(t *testing.T) {
 	if got := b.savedSeqs(); len(got) != 1 || got[0] != 10 {
 		t.Errorf("the retried start: the timeline shows %v, want [10]", got)
 	}
-
 	if got, want := b.storedSeqs(), "index [1 2 3 4 5 6 7 8 9 10] body [1 2 3 4 5 6 7 8 9 10]"; got != want {
 		t.Errorf("after the retries the database holds %s, want %s", got, want)
 	}
