@@ -60,3 +60,34 @@ func smallTargets(b *browser) []string {
 		.filter(e => { const r = e.getBoundingClientRect(); return r.width > 0 && r.height > 0 && (r.width < 44 || r.height < 44) })
 		.map(e => e.outerHTML.slice(0, 80) + " " + Math.round(e.getBoundingClientRect().width) + "x" + Math.round(e.getBoundingClientRect().height))`)
 }
+
+// Whatever the page scrolls into view is never left under the sticky
+// header (WCAG 2.2, 2.4.11 Focus Not Obscured): the skip link's target
+// (a jump to #main) and a field scrolled to, as a link to it or a script
+// does (scrollIntoView, block start), stop below the header, not at the
+// window's top edge behind it. The Brief is scrolled to its end first.
+func TestNothingScrolledUnderStickyHeader(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.viewport(1024, 768)
+	b.open(srv.URL("/"))
+	b.waitReady()
+	cases := []struct{ what, scroll, shown string }{
+		{"the skip link", `document.querySelector(".alv-skip").click()`, `document.querySelector("main h1")`},
+		{"the origin field", `document.getElementById("b-rt-origin").scrollIntoView()`, `document.getElementById("b-rt-origin")`},
+		{"leg 1's minutes", `document.getElementById("b-leg0-min").scrollIntoView()`, `document.getElementById("b-leg0-min")`},
+	}
+	for _, c := range cases {
+		eval[bool](b, `(window.scrollTo(0, document.documentElement.scrollHeight), true)`)
+		if eval[float64](b, `window.scrollY`) < 200 {
+			t.Fatal("the Brief does not scroll: the check would prove nothing")
+		}
+		gap := eval[float64](b, `(() => {
+			`+c.scroll+`;
+			return `+c.shown+`.getBoundingClientRect().top - document.querySelector(".alv-header").getBoundingClientRect().bottom;
+		})()`)
+		if gap < 0 {
+			t.Errorf("%s: what it shows starts %.0f px under the sticky header", c.what, -gap)
+		}
+	}
+}
