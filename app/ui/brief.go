@@ -2,11 +2,15 @@ package ui
 
 import (
 	"context"
+	"errors"
+	"fmt"
 	"reflect"
 	"strings"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"alvea/app/logbook"
 )
 
 // brief is the Brief screen: the whole plan chain as a form — route and
@@ -46,12 +50,13 @@ type briefState struct {
 	rev     int // the plan changed: the result panel redraws
 	formRev int // the whole form must redraw (draft loaded, units changed)
 	// patientNote is the note on the patient card while its values are
-	// kept in memory only (the vault locked or absent); "" when they are
-	// saved in the vault.
-	patientNote string
-	saveGen     int
-	pending     bool            // an edit not yet saved
-	open        map[string]bool // "How" disclosures the crew opened
+	// kept in memory only (the vault locked or absent, or its last write
+	// failed); "" when they are saved in the vault.
+	patientNote     string
+	patientUnlocked bool // the session was unlocked when last heard
+	saveGen         int
+	pending         bool            // an edit not yet saved
+	open            map[string]bool // "How" disclosures the crew opened
 
 	// Narrow updates (see typed). briefCtx and resultCtx are the contexts
 	// of the mounted Brief and result panel; shownMsgs is the messages of
@@ -92,6 +97,8 @@ func newBriefOn(session *vaultSession) *brief {
 	b := &brief{store: store, s: newBriefState(store)}
 	b.session = session
 	b.s.patientNote = patientNoteFor(session)
+	phase, _ := session.Phase()
+	b.s.patientUnlocked = phase == phaseUnlocked
 	return b
 }
 
@@ -111,6 +118,8 @@ const (
 	notePatientLocked  = "Patient values stay only in memory until the logbook is unlocked: a reload clears them. Unlock the logbook to keep them across a reload."
 	notePatientNoVault = "Patient values stay only in memory: a reload clears them. Create the logbook to keep them across a reload."
 	notePatientNoStore = "Patient values stay only in memory: this browser gives the logbook no storage, so a reload clears them."
+	notePatientFull    = "The device's storage is full: the patient values were NOT saved in the logbook and stay only in memory, so a reload clears them. Free some space on the device; the next change saves them."
+	notePatientFailed  = "The patient values could not be saved in the logbook (%s): they stay only in memory, so a reload clears them. The next change tries again."
 )
 
 // patientNoteFor returns the patient card's note for the session's phase.
@@ -120,7 +129,15 @@ func patientNoteFor(session *vaultSession) string {
 	}
 	switch phase, _ := session.Phase(); phase {
 	case phaseUnlocked:
-		return ""
+		switch err := session.DraftErr(); {
+		case err == nil:
+			return ""
+		case errors.Is(err, logbook.ErrQuota):
+			return notePatientFull
+		default:
+			// The vault's and the store's errors carry no patient value.
+			return fmt.Sprintf(notePatientFailed, err)
+		}
 	case phaseEmpty:
 		return notePatientNoVault
 	case phaseUnavailable:
@@ -209,9 +226,11 @@ func (b *brief) follow(ctx app.Context) {
 // vaultChanged follows a change of the session's phase.
 func (b *brief) vaultChanged(ctx app.Context) {
 	s := b.s
-	was := s.patientNote
+	was := s.patientUnlocked
+	phase, _ := b.session.Phase()
+	s.patientUnlocked = phase == phaseUnlocked
 	s.patientNote = patientNoteFor(b.session)
-	if s.patientNote != "" || was == "" {
+	if !s.patientUnlocked || was {
 		return
 	}
 	// Just unlocked. The session restored the saved block into memory if

@@ -63,6 +63,7 @@ type vaultSession struct {
 	patientSet bool
 	patientGen uint64
 	savedGen   uint64
+	draftErr   error      // how the last write of the block failed; nil: it did not
 	draftMu    sync.Mutex // one draft-slot write at a time, the newest last
 }
 
@@ -93,6 +94,14 @@ func (s *vaultSession) Subscribe(fn func()) (cancel func()) {
 func (s *vaultSession) changed() {
 	s.mu.Lock()
 	s.rev++
+	s.mu.Unlock()
+	s.notify()
+}
+
+// notify calls the subscribers for a change that is neither of phase nor
+// of the vault's content (the screens that key on Rev reload nothing).
+func (s *vaultSession) notify() {
+	s.mu.Lock()
 	fns := make([]func(), 0, len(s.subs))
 	for _, fn := range s.subs {
 		fns = append(fns, fn)

@@ -158,6 +158,7 @@ func (s *vaultSession) SaveDraftPatient(ctx context.Context) error {
 		return fmt.Errorf("ui: encoding the patient draft: %w", err)
 	}
 	if err := v.SaveDraft(ctx, plain); err != nil {
+		s.setDraftErr(err)
 		return err
 	}
 	s.mu.Lock()
@@ -165,7 +166,30 @@ func (s *vaultSession) SaveDraftPatient(ctx context.Context) error {
 		s.savedGen = gen
 	}
 	s.mu.Unlock()
+	s.setDraftErr(nil)
 	return nil
+}
+
+// setDraftErr records how the last write of the patient block ended and,
+// when that changes between failed and saved, tells the screens: the
+// Brief's patient card says the values are not kept (a full disk, say)
+// until a write succeeds.
+func (s *vaultSession) setDraftErr(err error) {
+	s.mu.Lock()
+	was := s.draftErr
+	s.draftErr = err
+	s.mu.Unlock()
+	if (was == nil) != (err == nil) {
+		s.notify()
+	}
+}
+
+// DraftErr returns how the last write of the patient block failed (nil:
+// it was saved, or none was due).
+func (s *vaultSession) DraftErr() error {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.draftErr
 }
 
 // saveDraftPatientLogged saves and logs a failure. The log line names the
