@@ -46,6 +46,20 @@ type logbookScreen struct {
 	manage  manageForm
 	storage *logbook.StorageStatus
 	units   Settings
+
+	held *heldForms // what the crew had typed when the logbook locked
+}
+
+// heldForms is the view and the forms the crew was in when the logbook
+// locked (the Lock button or the idle time): their own typing, not yet
+// saved. It stays in memory only, is not shown while locked, and comes
+// back at the next unlock, so a lock in the middle of an entry loses
+// nothing; a reload clears it, as it clears the Brief's patient values
+// while locked. Nothing decrypted from the vault is held.
+type heldForms struct {
+	view   string
+	record recordState // the transport's id and the forms; not the transport
+	start  startForm
 }
 
 // Views once unlocked.
@@ -96,18 +110,48 @@ func (l *logbookScreen) sync(ctx app.Context) {
 	was := l.phase
 	l.phase, l.phaseErr = l.session.Phase()
 	if l.phase != phaseUnlocked {
-		l.forget()
 		if was == phaseUnlocked {
 			l.status = "The logbook is locked."
+			if l.hold() {
+				l.status += " The entry you had not saved comes back when you unlock (a reload clears it)."
+			}
 		}
+		l.forget()
 		return
 	}
 	if was != phaseUnlocked {
+		l.restoreHeld()
 		l.stale = true
 		if l.busy == "" {
 			l.refresh(ctx)
 		}
 	}
+}
+
+// hold keeps the view and forms of a transport or a start being typed
+// (heldForms), and reports whether any of it holds unsaved typing.
+func (l *logbookScreen) hold() bool {
+	switch l.view {
+	case viewRecord:
+		r := l.record
+		r.transport, r.saving = nil, ""
+		l.held = &heldForms{view: viewRecord, record: r}
+		return r.typed()
+	case viewStart:
+		l.held = &heldForms{view: viewStart, start: l.start}
+		return l.start.typed()
+	}
+	return false
+}
+
+// restoreHeld puts back what hold kept; refresh then reads the transport.
+func (l *logbookScreen) restoreHeld() {
+	h := l.held
+	l.held = nil
+	if h == nil {
+		return
+	}
+	l.view, l.record, l.start = h.view, h.record, h.start
 }
 
 // forget drops decrypted content and the passphrase fields.

@@ -41,6 +41,13 @@ type lbObsForm struct {
 	spo2, fio2, device, flow, rr, etco2, hr string
 }
 
+// typed reports whether any form of the record view holds the crew's
+// typing, or an entry the store refused.
+func (r recordState) typed() bool {
+	return r.otherText != "" || r.gaugeText != "" || r.obs != (lbObsForm{}) || r.noteText != "" ||
+		r.outcome != "" || r.amendSeq != 0 || r.pending != ""
+}
+
 func (l *logbookScreen) openTransport(ctx app.Context, id logbook.TransportID) {
 	l.record = recordState{id: id}
 	l.view = viewRecord

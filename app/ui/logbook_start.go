@@ -29,6 +29,12 @@ type startForm struct {
 	weightMsg, vehicleMsg string
 }
 
+// typed reports whether the crew has filled in any field of the form.
+func (f startForm) typed() bool {
+	return f.vehicle != "" || f.crew != "" || f.origin != "" || f.originElev != "" || f.dest != "" ||
+		f.destElev != "" || f.age != "" || f.sex != "" || f.weight != "" || f.identifying != ""
+}
+
 // prepareStart reads the current Brief draft and computes its plan.
 func (l *logbookScreen) prepareStart(ctx app.Context) {
 	f := startForm{}

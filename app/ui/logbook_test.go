@@ -434,3 +434,67 @@ func TestLogbookChangePassphrase(t *testing.T) {
 		t.Errorf("after the change: %v transports, err %v", lst, err)
 	}
 }
+
+// A lock in the middle of an entry (the Lock button, or the idle time)
+// hides it with everything else, and the next unlock brings the crew back
+// to the same transport with what they had typed and not saved: nothing
+// typed is lost to a lock. Issue 5: nothing is lost; a lock drops what
+// was decrypted.
+func TestLogbookLockKeepsUnsavedEntry(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	l, e := mountLogbook(t, s)
+	openTestTransport(t, l, e)
+	id := l.record.id
+	l.record.noteText = "typed before the lock"
+	l.record.gaugeText = "1700"
+	s.Lock()
+	e.ConsumeAll()
+	page := lbHTML(l)
+	if l.record.transport != nil || strings.Contains(page, "Mesa clinic") || strings.Contains(page, "typed before the lock") {
+		t.Fatalf("locked: the screen still shows the transport or the entry:\n%s", page)
+	}
+	if !strings.Contains(l.status, "comes back when you unlock") {
+		t.Errorf("locked: the status does not say the entry is kept: %q", l.status)
+	}
+	l.access.unlock = uiTestPass
+	l.unlock(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.view != viewRecord || l.record.id != id || l.record.transport == nil {
+		t.Fatalf("unlocked: view %q, transport %v (problem %q)", l.view, l.record.transport != nil, l.problem)
+	}
+	if l.record.noteText != "typed before the lock" || l.record.gaugeText != "1700" {
+		t.Errorf("unlocked: the forms hold %q and %q", l.record.noteText, l.record.gaugeText)
+	}
+	if !strings.Contains(lbHTML(l), "typed before the lock") {
+		t.Error("unlocked: the note typed before the lock is not back in its field")
+	}
+	// Saved now, it is in the transport once.
+	l.saveNote(l.mctx, noEvent)
+	e.ConsumeAll()
+	if !strings.Contains(lbHTML(l), "Note: typed before the lock") {
+		t.Errorf("the note kept across the lock does not save (problem %q)", l.problem)
+	}
+}
+
+// A start of transport being filled in when the logbook locks comes back
+// at the next unlock.
+func TestLogbookLockKeepsStartForm(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	l, e := mountLogbook(t, s)
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
+	l.view = viewStart
+	l.start = lbStartFormFor("Rotor wing", "Mesa clinic", "Bay hospital")
+	l.lockNow(l.mctx, noEvent)
+	e.ConsumeAll()
+	if strings.Contains(lbHTML(l), "Mesa clinic") {
+		t.Fatal("locked: the start form is still shown")
+	}
+	l.access.unlock = uiTestPass
+	l.unlock(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.view != viewStart || l.start.origin != "Mesa clinic" || l.start.vehicle != "Rotor wing" {
+		t.Errorf("unlocked: view %q, start form %+v", l.view, l.start)
+	}
+}
