@@ -11,6 +11,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"sync/atomic"
 	"time"
@@ -239,4 +240,50 @@ func (p *program) stop() {
 		p.proc.Wait()
 		p.proc = nil
 	}
+}
+
+// engineSize builds testdata/engine (the floor with Alvea's engine linked
+// in: physio, the vault in IndexedDB, bundles and the audit; no screen)
+// with the same flags, and adds its app.wasm brotli size beside the
+// floor's: what the computation alone weighs, against the size budget.
+func engineSize(repo, work string, alvea, floor *program, r *report) error {
+	root := filepath.Join(work, "engine")
+	if err := os.MkdirAll(filepath.Join(root, "web"), 0o755); err != nil {
+		return err
+	}
+	args := append([]string{"build"}, buildFlags...)
+	args = append(args, "-o", filepath.Join(root, "web", "app.wasm"), "./testdata/engine")
+	cmd := exec.Command("go", args...)
+	cmd.Dir = repo
+	cmd.Env = append(os.Environ(), "GOOS=js", "GOARCH=wasm")
+	if out, err := cmd.CombinedOutput(); err != nil {
+		return fmt.Errorf("go %s: %v\n%s", strings.Join(args, " "), err, out)
+	}
+	res, err := server.NewResources(root)
+	if err != nil {
+		return err
+	}
+	if err := res.Wait(); err != nil {
+		return err
+	}
+	var engine, fl, al []byte
+	for _, e := range server.Encodings {
+		if e.Name == "br" {
+			engine, _ = res.Copy(e)
+			fl, _ = floor.res.Copy(e)
+			al, _ = alvea.res.Copy(e)
+		}
+	}
+	if len(engine) == 0 || len(fl) == 0 || len(al) == 0 {
+		return fmt.Errorf("no brotli copy of app.wasm for the engine, the floor or Alvea")
+	}
+	r.add(row{Name: "brotli: the floor with Alvea's engine and no screen (testdata/engine)", Unit: "B", A: one(float64(len(engine))), F: one(float64(len(fl)))})
+	ratio := float64(len(engine)) / float64(len(fl))
+	room := "leaving " + strconv.Itoa(int(1.15*float64(len(fl)))-len(engine)) + " B brotli for the six screens"
+	if ratio > 1.15 {
+		room = "so the size budget (1.15 × the floor) is below what the engine alone weighs, before any screen"
+	}
+	r.note("Size: testdata/engine is the floor with Alvea's engine linked in (physio's plan, the vault in IndexedDB, bundles, the audit) and none of its screens. Its app.wasm is %.2f × the floor's in brotli, %s. Alvea adds %d B brotli over the floor, %d B of it over the engine alone (the screens).",
+		ratio, room, len(al)-len(fl), len(al)-len(engine))
+	return nil
 }

@@ -5,7 +5,10 @@
 // speed and size issue. It builds both with the flags make uses, in one
 // run, then measures:
 //
-//   - app.wasm raw, gzip and brotli (the copies the server sends);
+//   - app.wasm raw, gzip and brotli (the copies the server sends), and the
+//     brotli size of testdata/engine, the floor with Alvea's engine (physio,
+//     the vault, bundles, the audit) linked in and no screen: what the
+//     computation alone weighs against the floor;
 //   - the bytes a first visit transfers (counted on the wire, the service
 //     worker's precache included);
 //   - first visit and warm start (a reload served by the service worker) to
@@ -112,6 +115,10 @@ func run() error {
 	if wants("sizes") {
 		progress("compressing app.wasm (cached by content after the first time)")
 		if err := sizes(alvea, floor, r); err != nil {
+			return err
+		}
+		progress("building the floor with Alvea's engine and no screen")
+		if err := engineSize(repo, work, alvea, floor, r); err != nil {
 			return err
 		}
 		progress("reading where the size goes (builds keeping names)")
