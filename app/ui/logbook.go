@@ -223,7 +223,7 @@ func (l *logbookScreen) refresh(ctx app.Context) {
 		return nil
 	}, func(ctx app.Context, err error) {
 		if err != nil {
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 			return
 		}
 		l.list.listing = listing

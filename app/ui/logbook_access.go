@@ -107,7 +107,7 @@ func (l *logbookScreen) create(ctx app.Context, e app.Event) {
 		return l.session.Create(c, pass)
 	}, func(ctx app.Context, err error) {
 		if err != nil {
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 			return
 		}
 		l.access.clearSecrets()
@@ -125,7 +125,7 @@ func (l *logbookScreen) unlock(ctx app.Context, e app.Event) {
 		l.access.unlock = ""
 		lbClearInputs("lb-pass")
 		if err != nil {
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 			return
 		}
 		l.status = "Unlocked."
@@ -149,7 +149,7 @@ func (l *logbookScreen) importBundle(ctx app.Context, e app.Event) {
 		case errors.Is(err, lbErrNoFile):
 			l.problem = "Choose a bundle file first."
 		case err != nil:
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 		default:
 			l.access.clearSecrets()
 			l.status = "Bundle checked and imported; the logbook is unlocked."

@@ -83,7 +83,7 @@ func (l *logbookScreen) export(ctx app.Context, e app.Event) {
 		return lbDownload(name, data)
 	}, func(ctx app.Context, err error) {
 		if err != nil {
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 			return
 		}
 		l.status = "Bundle exported (a download). It opens only with this logbook's passphrase."
@@ -102,7 +102,7 @@ func (l *logbookScreen) verify(ctx app.Context, e app.Event) {
 	}, func(ctx app.Context, err error) {
 		switch {
 		case err != nil:
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 		case len(problems) == 0:
 			l.manage.checked = "Every record checked: no problem found."
 		default:
@@ -115,7 +115,7 @@ func (l *logbookScreen) changePassphrase(ctx app.Context, e app.Event) {
 	e.PreventDefault()
 	m := &l.manage
 	if err := logbook.CheckPassphrase(m.next); err != nil {
-		m.nextMsg = vaultMessage(err)
+		m.nextMsg = vaultActionMessage(err)
 		return
 	}
 	if m.again != m.next {
@@ -129,7 +129,7 @@ func (l *logbookScreen) changePassphrase(ctx app.Context, e app.Event) {
 		m.current = ""
 		lbClearInputs("lb-cur-pass")
 		if err != nil {
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 			return
 		}
 		m.next, m.again = "", ""

@@ -68,7 +68,7 @@ func (l *logbookScreen) loadTransport(ctx app.Context) {
 		return err
 	}, func(ctx app.Context, err error) {
 		if err != nil {
-			l.problem = vaultMessage(err)
+			l.problem = vaultActionMessage(err)
 			return
 		}
 		if l.record.id == id {

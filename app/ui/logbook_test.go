@@ -498,3 +498,30 @@ func TestLogbookLockKeepsStartForm(t *testing.T) {
 		t.Errorf("unlocked: view %q, start form %+v", l.view, l.start)
 	}
 }
+
+// headerRefusingStore refuses the vault header's write, as a full browser
+// store does when the logbook is created.
+type headerRefusingStore struct{ logbook.Store }
+
+func (headerRefusingStore) PutHeader(context.Context, []byte) error {
+	return fmt.Errorf("idb: abort: %w", logbook.ErrQuota)
+}
+
+// A full disk when the logbook is created gets the full-disk sentence for
+// an action, not the one for an entry (there is no entry to save again).
+// Issue 5: a full disk or a refused write gets a clear message.
+func TestLogbookCreateOnFullDisk(t *testing.T) {
+	l, e := mountLogbook(t, testSession(headerRefusingStore{logbook.NewMemStore()}))
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.phase == phaseUnlocked {
+		t.Fatal("the logbook was created though its header was refused")
+	}
+	if !strings.Contains(l.problem, "storage is full: this was NOT done") || strings.Contains(l.problem, "entry") {
+		t.Errorf("create on a full disk says %q", l.problem)
+	}
+	if got := vaultActionMessage(errors.New("idb: transaction aborted")); strings.Contains(got, "entry") || !strings.Contains(got, "transaction aborted") {
+		t.Errorf("another failure of an action says %q", got)
+	}
+}

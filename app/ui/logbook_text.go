@@ -48,7 +48,26 @@ func vaultMessage(err error) string {
 	case errors.Is(err, logbook.ErrNoVault):
 		return "There is no vault on this device yet."
 	}
-	return "The logbook could not do this: " + err.Error() + ". If this was a new entry, it was NOT saved and is still on screen."
+	return lbCouldNot(err) + " If this was a new entry, it was NOT saved and is still on screen."
+}
+
+func lbCouldNot(err error) string { return "The logbook could not do this: " + err.Error() + "." }
+
+// vaultActionMessage is vaultMessage for what is not an entry (reading the
+// logbook, creating it, unlocking, importing, exporting, checking,
+// changing the passphrase): a refusal there leaves no entry on screen to
+// save again, so it says what to do instead.
+func vaultActionMessage(err error) string {
+	switch {
+	case errors.Is(err, logbook.ErrQuota):
+		return "The device's storage is full: this was NOT done. Free some space on the device, then try again."
+	case errors.Is(err, logbook.ErrLocked):
+		return "The logbook is locked. Unlock it, then try again."
+	}
+	if msg := vaultMessage(err); msg != lbCouldNot(err)+" If this was a new entry, it was NOT saved and is still on screen." {
+		return msg
+	}
+	return lbCouldNot(err)
 }
 
 // lbPassphraseMessage explains why a new passphrase was refused.
