@@ -43,7 +43,7 @@ func (m *briefModel) fail(id, where, msg string) {
 func (m *briefModel) read(id, where, path string, spec fieldSpec, e Entry, disp string, required bool) *float64 {
 	m.paths[path] = id
 	m.labels[id] = where
-	r := readEntry(spec, e, disp, required)
+	r := readEntryMemo(spec, e, disp, required)
 	if r.Msg != "" {
 		m.fail(id, where, r.Msg)
 		return nil
@@ -235,7 +235,7 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 		m.paths[path(".pressure_bar")] = gid
 		if cylErr == nil {
 			spec := gaugeSpec(cyl)
-			r := readEntry(spec, s.Pressure, pu, true)
+			r := readEntryMemo(spec, s.Pressure, pu, true)
 			if r.Msg != "" {
 				m.fail(gid, where, r.Msg)
 			} else {
@@ -263,7 +263,7 @@ func buildBrief(d BriefDraft, st Settings) *briefModel {
 	m.paths["policy.reserve_minutes"] = fidResMinutes
 	m.paths["policy.spo2_target_percent"] = fidSpO2Target
 	if d.Policy.Override {
-		r := readEntry(specResidual, d.Policy.Residual, pu, true)
+		r := readEntryMemo(specResidual, d.Policy.Residual, pu, true)
 		if r.Msg != "" {
 			m.fail(fidResidual, "Reserve policy", r.Msg)
 		} else {
