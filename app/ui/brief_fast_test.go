@@ -368,7 +368,7 @@ func TestBriefPackMatchesRender(t *testing.T) {
 		var p, fromPack panelPack
 		s.pack(&fromPack)
 		s.pack(&p)
-		if p.bad {
+		if p.bad() {
 			t.Fatalf("%s: a text holds a separator", from.name)
 		}
 		check(from.name, s, parseHTML(t, raw), records(t, string(p.recs)))
@@ -403,7 +403,11 @@ func TestBriefPackMatchesRender(t *testing.T) {
 			// Only the records that changed, written into the first
 			// plan's rendering, give the same.
 			diffTree := parseHTML(t, raw)
-			if diff := p.changedSince(&fromPack, nil); len(diff) > 0 && !apply(diffTree, records(t, string(diff))) {
+			diff, ok := p.changedSince(&fromPack, nil)
+			if !ok {
+				t.Fatalf("%s → %s: a changed text holds a separator", from.name, to.name)
+			}
+			if len(diff) > 0 && !apply(diffTree, records(t, string(diff))) {
 				t.Errorf("%s → %s: a changed record found no single text to write", from.name, to.name)
 			}
 			// go-app's rendering of the second plan depends on the
@@ -563,5 +567,42 @@ func TestBriefDirectPath(t *testing.T) {
 	key("17")
 	if s.direct {
 		t.Error("direct with the panel gone")
+	}
+}
+
+// A text holding a separator is never sent to the page (it would be cut in
+// two there): a changed record with one stops the direct write, and a
+// full pack with one anywhere is refused, whichever record holds it.
+func TestPanelPackRefusesSeparatorInText(t *testing.T) {
+	var before, after panelPack
+	before.text("12", "b-a")
+	before.text("ok", "b-b")
+	before.attr("hidden", "", "b-c")
+	after.text("13", "b-a")
+	after.text("ok", "b-b")
+	after.attr("hidden", "", "b-c")
+	if diff, ok := after.changedSince(&before, nil); !ok || string(diff) != "b-a\x1f13" {
+		t.Fatalf("clean change: %q, %v", diff, ok)
+	}
+	if after.bad() {
+		t.Fatal("a clean pack is called bad")
+	}
+	for _, sep := range []string{"\x1e", "\x1f"} {
+		var bad panelPack
+		bad.text("13", "b-a")
+		bad.text("o"+sep+"k", "b-b")
+		bad.attr("hidden", "", "b-c")
+		if _, ok := bad.changedSince(&before, nil); ok {
+			t.Errorf("%q: a changed text with a separator would be sent", sep)
+		}
+		if !bad.bad() {
+			t.Errorf("%q: a pack with a separator in a text is not called bad", sep)
+		}
+	}
+	// An attribute's name is never mistaken for a separator in its value.
+	var attrs panelPack
+	attrs.attr("data-status", "go", "b-status")
+	if attrs.bad() {
+		t.Error("an attribute record is called bad")
 	}
 }

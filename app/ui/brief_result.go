@@ -816,12 +816,36 @@ type panelPack struct {
 	recs  []byte
 	shape []byte
 	offs  []int     // where each record starts in recs
+	texts []span    // where each record's text or value is in recs
 	figs  []partFig // the figures being written out (a buffer)
-	bad   bool      // a text holds a separator
 }
 
+// span is a part of recs, [from, to).
+type span struct{ from, to int }
+
 func (p *panelPack) reset() {
-	p.recs, p.shape, p.offs, p.bad = p.recs[:0], p.shape[:0], p.offs[:0], false
+	p.recs, p.shape, p.offs, p.texts = p.recs[:0], p.shape[:0], p.offs[:0], p.texts[:0]
+}
+
+// A text that holds a separator cannot be sent: the page would cut it in
+// two. Only the texts sent are looked at (a keystroke sends a few dozen
+// records of several hundred; in wasm, looking at every text took a third
+// of the pack).
+
+// textOK reports whether record i's text holds no separator.
+func (p *panelPack) textOK(i int) bool {
+	t := p.recs[p.texts[i].from:p.texts[i].to]
+	return bytes.IndexByte(t, packRec) < 0 && bytes.IndexByte(t, packField) < 0
+}
+
+// bad reports whether any text holds a separator.
+func (p *panelPack) bad() bool {
+	for i := range p.texts {
+		if !p.textOK(i) {
+			return true
+		}
+	}
+	return false
 }
 
 // text records the text of the element whose id is the parts of id joined.
@@ -847,9 +871,7 @@ func (p *panelPack) put(name, a, b string, id []string) {
 	start := len(p.recs)
 	p.recs = append(p.recs, a...)
 	p.recs = append(p.recs, b...)
-	if bytes.IndexByte(p.recs[start:], packRec) >= 0 || bytes.IndexByte(p.recs[start:], packField) >= 0 {
-		p.bad = true
-	}
+	p.texts = append(p.texts, span{start, len(p.recs)})
 	if name != "" {
 		p.recs = append(p.recs, packField)
 		p.recs = append(p.recs, name...)
@@ -869,19 +891,22 @@ func (p *panelPack) record(i int) []byte {
 
 // changedSince writes into out the records of p that differ from those of
 // prev, a pack of the same shape, and returns them.
-func (p *panelPack) changedSince(prev *panelPack, out []byte) []byte {
+func (p *panelPack) changedSince(prev *panelPack, out []byte) (changed []byte, ok bool) {
 	out = out[:0]
 	for i := range p.offs {
 		r := p.record(i)
 		if bytes.Equal(r, prev.record(i)) {
 			continue
 		}
+		if !p.textOK(i) {
+			return out, false
+		}
 		if len(out) > 0 {
 			out = append(out, packRec)
 		}
 		out = append(out, r...)
 	}
-	return out
+	return out, true
 }
 
 // pack writes out every text and attribute of the result panel that the
@@ -1027,14 +1052,17 @@ func (s *briefState) showPlan() bool {
 	}
 	p := &s.panel
 	s.pack(p)
-	if p.bad {
+	recs := p.recs
+	ok := true
+	if s.sentOK && bytes.Equal(p.shape, s.sent.shape) {
+		s.diff, ok = p.changedSince(&s.sent, s.diff)
+		recs = s.diff
+	} else {
+		ok = !p.bad()
+	}
+	if !ok {
 		s.sentOK = false
 		return false
-	}
-	recs := p.recs
-	if s.sentOK && bytes.Equal(p.shape, s.sent.shape) {
-		s.diff = p.changedSince(&s.sent, s.diff)
-		recs = s.diff
 	}
 	s.sentOK = len(recs) == 0 || s.writePanel(recs)
 	s.panel, s.sent = s.sent, s.panel
@@ -1054,7 +1082,7 @@ func (s *briefState) afterRender(app.Context) {
 	}
 	p := &s.panel
 	s.pack(p)
-	if p.bad {
+	if p.bad() {
 		return
 	}
 	if !s.writePanel(p.recs) {
