@@ -146,6 +146,15 @@ func vaultInBrowser(alvea *program, r *report) error {
 			return fmt.Errorf("append: %w", err)
 		}
 		appendMs = append(appendMs, ms)
+		// Back to the list before the lock: a lock taken in a transport
+		// brings the crew back to it at the next unlock, and the next
+		// round times the list.
+		if err := c.tap("#lb-nav-list"); err != nil {
+			return err
+		}
+		if err := c.waitJS("the list", `document.querySelector("#lb-count") !== null && !document.querySelector(".lb-busy")`, 30*time.Second); err != nil {
+			return err
+		}
 		if err := c.tap("#lb-lock"); err != nil {
 			return err
 		}
