@@ -16,7 +16,8 @@
 //   - the Brief's recompute latency while typing, at 4x;
 //   - the vault in Chromium (unlock, append one record, open and list
 //     10 000 records) and natively (go test -bench in app/logbook);
-//   - the physio and plan benchmarks (go test -bench).
+//   - the physio and plan benchmarks (go test -bench), and the Brief's and
+//     the plan's also compiled to wasm and run by Node's V8 (no browser).
 //
 // It prints a markdown table with each figure for both programs and the
 // ratio Alvea / floor, and writes it to dist/bench.md. Timings are

@@ -4,7 +4,9 @@ package main
 
 import (
 	"fmt"
+	"os"
 	"os/exec"
+	"path/filepath"
 	"regexp"
 	"strconv"
 	"strings"
@@ -17,15 +19,31 @@ import (
 func nativeFigures(repo string, r *report) error {
 	groups := []struct {
 		title, pkg, pattern string
+		wasm                bool
 	}{
-		{"app/logbook benchmarks, native: the vault and the audit", "./app/logbook", "."},
-		{"app/ui benchmarks, native", "./app/ui", "."},
-		{"physio and plan benchmarks, native", "./physio", "."},
+		{"app/logbook benchmarks, native: the vault and the audit", "./app/logbook", ".", false},
+		{"app/ui benchmarks, native", "./app/ui", ".", false},
+		{"physio and plan benchmarks, native", "./physio", ".", false},
+		// The same Go code compiled to wasm and run by Node's V8 (the
+		// engine Chromium uses), without the browser and its throttle: a
+		// steadier figure for the Brief's own work per keystroke than the
+		// browser's latency, which also holds go-app's event handling, the
+		// page's write and V8's tier-up. (BriefKeystroke needs go-app's
+		// test engine, which in wasm wants a page: it stays native.)
+		{"the Brief and the plan in wasm (Node's V8, no throttle)", "./app/ui", "Brief(Read|Pack|KeystrokeDirect|Recompute)$", true},
+		{"the plan in wasm (Node's V8, no throttle)", "./physio", "ComputePlan$", true},
 	}
 	for _, g := range groups {
-		progress("go test -bench %s %s", g.pattern, g.pkg)
+		progress("go test -bench %s %s (wasm: %v)", g.pattern, g.pkg, g.wasm)
 		cmd := exec.Command("go", "test", "-run", "^$", "-bench", g.pattern, "-benchmem", "-count", "1", g.pkg)
 		cmd.Dir = repo
+		if g.wasm {
+			env, err := wasmTestEnv()
+			if err != nil {
+				return err
+			}
+			cmd.Env = env
+		}
 		out, err := cmd.CombinedOutput()
 		if err != nil {
 			return fmt.Errorf("go test -bench %s: %v\n%s", g.pkg, err, out)
@@ -47,6 +65,20 @@ func nativeFigures(repo string, r *report) error {
 		}
 	}
 	return nil
+}
+
+// wasmTestEnv is the environment that runs go test's wasm binaries under
+// Node, with the Go toolchain's own runner (GOROOT/lib/wasm).
+func wasmTestEnv() ([]string, error) {
+	if _, err := exec.LookPath("node"); err != nil {
+		return nil, fmt.Errorf("node is required for the wasm benchmarks (make bench installs it): %w", err)
+	}
+	out, err := exec.Command("go", "env", "GOROOT").Output()
+	if err != nil {
+		return nil, fmt.Errorf("go env GOROOT: %w", err)
+	}
+	runner := filepath.Join(strings.TrimSpace(string(out)), "lib", "wasm")
+	return append(os.Environ(), "GOOS=js", "GOARCH=wasm", "PATH="+runner+string(os.PathListSeparator)+os.Getenv("PATH")), nil
 }
 
 type benchResult struct {
