@@ -50,16 +50,17 @@ type logbookScreen struct {
 	held *heldForms // what the crew had typed when the logbook locked
 }
 
-// heldForms is the view and the forms the crew was in when the logbook
-// locked (the Lock button or the idle time): their own typing, not yet
-// saved. It stays in memory only, is not shown while locked, and comes
-// back at the next unlock, so a lock in the middle of an entry loses
-// nothing; a reload clears it, as it clears the Brief's patient values
-// while locked. Nothing decrypted from the vault is held.
+// heldForms is the view the crew was in when the logbook locked (the Lock
+// button or the idle time), and the start form being filled in; a
+// transport's unsaved entries go to the session (stashUnsaved). All of it
+// stays in memory only, is not shown while locked, and comes back at the
+// next unlock, so a lock in the middle of an entry loses nothing; a
+// reload clears it, as it clears the Brief's patient values while locked.
+// Nothing decrypted from the vault is held.
 type heldForms struct {
-	view   string
-	record recordState // the transport's id and the forms; not the transport
-	start  startForm
+	view  string
+	id    logbook.TransportID // the transport shown
+	start startForm
 }
 
 // Views once unlocked.
@@ -98,6 +99,7 @@ func (l *logbookScreen) OnMount(ctx app.Context) {
 }
 
 func (l *logbookScreen) OnDismount() {
+	l.stashUnsaved()
 	if l.unsub != nil {
 		l.unsub()
 		l.unsub = nil
@@ -133,10 +135,10 @@ func (l *logbookScreen) sync(ctx app.Context) {
 func (l *logbookScreen) hold() bool {
 	switch l.view {
 	case viewRecord:
-		r := l.record
-		r.transport, r.saving = nil, ""
-		l.held = &heldForms{view: viewRecord, record: r}
-		return r.typed()
+		typed := l.record.typed()
+		l.held = &heldForms{view: viewRecord, id: l.record.id}
+		l.stashUnsaved()
+		return typed
 	case viewStart:
 		l.held = &heldForms{view: viewStart, start: l.start}
 		return l.start.typed()
@@ -151,7 +153,33 @@ func (l *logbookScreen) restoreHeld() {
 	if h == nil {
 		return
 	}
-	l.view, l.record, l.start = h.view, h.record, h.start
+	l.view, l.start = h.view, h.start
+	if h.view == viewRecord {
+		l.record = recordState{id: h.id}
+		l.takeUnsaved()
+	}
+}
+
+// stashUnsaved keeps the record view's unsaved typing in the session as
+// the crew leaves it (another view, another transport, another screen, a
+// lock); takeUnsaved puts it back when that transport opens again.
+func (l *logbookScreen) stashUnsaved() {
+	if l.view != viewRecord || l.record.id == "" || !l.record.typed() {
+		return
+	}
+	r := l.record
+	r.transport, r.saving = nil, ""
+	l.session.keepUnsaved(r)
+	l.record = recordState{id: r.id}
+}
+
+// takeUnsaved puts back what stashUnsaved kept for the transport in
+// l.record, and says so.
+func (l *logbookScreen) takeUnsaved() {
+	if r, ok := l.session.takeUnsaved(l.record.id); ok {
+		l.record = r
+		l.status = "What you had typed and not saved for this transport is back in its fields."
+	}
 }
 
 // forget drops decrypted content and the passphrase fields.
@@ -322,6 +350,9 @@ func (l *logbookScreen) lockNow(ctx app.Context, e app.Event) {
 }
 
 func (l *logbookScreen) show(ctx app.Context, view string) {
+	if view != l.view {
+		l.stashUnsaved()
+	}
 	l.view, l.problem, l.status = view, "", ""
 }
 

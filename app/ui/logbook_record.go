@@ -49,9 +49,11 @@ func (r recordState) typed() bool {
 }
 
 func (l *logbookScreen) openTransport(ctx app.Context, id logbook.TransportID) {
+	l.stashUnsaved()
 	l.record = recordState{id: id}
 	l.view = viewRecord
 	l.status, l.problem = "", ""
+	l.takeUnsaved()
 	l.loadTransport(ctx)
 }
 

@@ -525,3 +525,51 @@ func TestLogbookCreateOnFullDisk(t *testing.T) {
 		t.Errorf("another failure of an action says %q", got)
 	}
 }
+
+// An entry typed and not saved stays with its transport when the crew
+// goes to the list, to another transport, or to another screen, and is
+// back in its field when that transport opens again; saved then, the
+// field empties and nothing is held any more. Issue 5: nothing is lost.
+func TestLogbookUnsavedEntryFollowsItsTransport(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	l, e := mountLogbook(t, s)
+	openTestTransport(t, l, e)
+	id := l.record.id
+	l.record.noteText = "typed, then the list"
+	l.record.obs.spo2 = "91"
+	l.show(l.mctx, viewList)
+	if l.record.noteText != "" {
+		t.Errorf("the list view still holds the note: %q", l.record.noteText)
+	}
+	l.openTransport(l.mctx, id)
+	e.ConsumeAll()
+	if l.record.noteText != "typed, then the list" || l.record.obs.spo2 != "91" || l.record.transport == nil {
+		t.Fatalf("back in the transport: note %q, SpO2 %q, loaded %v", l.record.noteText, l.record.obs.spo2, l.record.transport != nil)
+	}
+	if !strings.Contains(l.status, "back in its fields") {
+		t.Errorf("the status does not say the entry is back: %q", l.status)
+	}
+
+	// Another screen: this one goes, a new Logbook screen opens.
+	l.OnDismount()
+	l2, e2 := mountLogbook(t, s)
+	if l2.view != viewList {
+		t.Fatalf("the new screen shows %q", l2.view)
+	}
+	l2.openTransport(l2.mctx, id)
+	e2.ConsumeAll()
+	if l2.record.noteText != "typed, then the list" {
+		t.Fatalf("after another screen: note %q", l2.record.noteText)
+	}
+	l2.saveNote(l2.mctx, noEvent)
+	e2.ConsumeAll()
+	if l2.record.noteText != "" || !strings.Contains(lbHTML(l2), "Note: typed, then the list") {
+		t.Fatalf("the note kept does not save (problem %q)", l2.problem)
+	}
+	l2.show(l2.mctx, viewList)
+	l2.openTransport(l2.mctx, id)
+	e2.ConsumeAll()
+	if l2.record.noteText != "" || l2.record.obs.spo2 != "91" {
+		t.Errorf("after the save: note %q (want none), SpO2 %q (still unsaved, want kept)", l2.record.noteText, l2.record.obs.spo2)
+	}
+}

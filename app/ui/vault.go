@@ -65,6 +65,30 @@ type vaultSession struct {
 	savedGen   uint64
 	draftErr   error      // how the last write of the block failed; nil: it did not
 	draftMu    sync.Mutex // one draft-slot write at a time, the newest last
+
+	// Entries typed in the Logbook and not saved, by transport: kept in
+	// memory (never stored) while the crew is on another view or screen,
+	// or the logbook is locked, and put back when that transport opens.
+	unsaved map[logbook.TransportID]recordState
+}
+
+// keepUnsaved holds r's forms (r.id is the transport) until takeUnsaved.
+func (s *vaultSession) keepUnsaved(r recordState) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.unsaved == nil {
+		s.unsaved = map[logbook.TransportID]recordState{}
+	}
+	s.unsaved[r.id] = r
+}
+
+// takeUnsaved returns and forgets the forms held for transport id.
+func (s *vaultSession) takeUnsaved(id logbook.TransportID) (recordState, bool) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	r, ok := s.unsaved[id]
+	delete(s.unsaved, id)
+	return r, ok
 }
 
 // theVault is the app's one vault session. The store opener and the key
