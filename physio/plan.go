@@ -5,7 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
+	"slices"
 	"strconv"
 
 	"github.com/shopspring/decimal"
@@ -194,6 +194,11 @@ type planLegState struct {
 // besides those of its legs and cylinders (cabin and max cruise altitude,
 // supply exhausted, expected A-a gradient, ground oxygen content).
 const planOptionalNumbers = 5
+
+// planOptionsUsual is how many options a leg usually has: the same device
+// at the FiO2 needed, the three low-flow devices, a Venturi setting and
+// two high-flow totals.
+const planOptionsUsual = 7
 
 // optional returns a pointer to a copy of n, for a *Number field.
 func (c *planComputer) optional(n Number) *Number {
@@ -793,7 +798,9 @@ func (c *planComputer) ventDefault(leg int, key string, p *float64) float64 {
 // need.
 func planOptions(o *PlanOxygen, needed Number) []PlanOption {
 	n := needed.InexactFloat64()
-	out := []PlanOption{}
+	// Sized for the usual count (the same device, three low-flow devices,
+	// a Venturi, two high-flow totals): no growth on a keystroke.
+	out := make([]PlanOption, 0, planOptionsUsual)
 	var sameTotal float64
 	switch o.Device {
 	case Ventilator:
@@ -822,7 +829,7 @@ func planOptions(o *PlanOxygen, needed Number) []PlanOption {
 			out = append(out, op)
 		}
 	}
-	var others []SetUp
+	others := make([]SetUp, 0, planOptionsUsual)
 	for _, d := range []Device{NasalCannula, SimpleMask, NonRebreather} {
 		lo, hi, _ := DeviceFlowRange(d)
 		for f := float64(lo); f <= float64(hi); f++ {
@@ -851,7 +858,7 @@ func planOptions(o *PlanOxygen, needed Number) []PlanOption {
 			others = append(others, SetUp{Device: HighFlow, Flow: f, FiO2: FiO2Range{Fraction(n), Fraction(n)}, TotalFlow: total})
 		}
 	}
-	sort.SliceStable(others, func(i, j int) bool { return others[i].Flow < others[j].Flow })
+	slices.SortStableFunc(others, func(a, b SetUp) int { return cmp.Compare(a.Flow, b.Flow) })
 	for _, s := range others {
 		out = append(out, planOption(s))
 	}
@@ -868,17 +875,26 @@ func planOr0(p *float64) float64 {
 func planOption(s SetUp) PlanOption {
 	op := PlanOption{Device: s.Device, OxygenLpm: num(float64(s.Flow), 1, RoundUp), TotalLpm: num(float64(s.TotalFlow), 1, RoundNearest),
 		FiO2Low: num(float64(s.FiO2.Low), 2, RoundDown), FiO2High: num(float64(s.FiO2.High), 2, RoundUp)}
-	fio2 := op.FiO2Low.String()
-	if op.FiO2High.Cmp(op.FiO2Low.Decimal) != 0 {
-		fio2 += "-" + op.FiO2High.String()
-	}
-	// Built by concatenation, not fmt: the Brief computes options on every
-	// keystroke.
+	// Appended into one buffer, not by fmt or string by string: the Brief
+	// computes the options on every keystroke, and this makes one string.
+	var buf [128]byte
+	b := append(buf[:0], "option: "...)
+	b = append(b, s.Device...)
+	b = append(b, " at "...)
+	b = op.OxygenLpm.AppendText(b)
+	b = append(b, " L/min oxygen"...)
 	if s.TotalFlow != s.Flow {
-		op.Label = "option: " + string(s.Device) + " at " + op.OxygenLpm.String() + " L/min oxygen, " + op.TotalLpm.String() + " L/min total (FiO2 " + fio2 + ")"
-	} else {
-		op.Label = "option: " + string(s.Device) + " at " + op.OxygenLpm.String() + " L/min oxygen (FiO2 " + fio2 + ")"
+		b = append(b, ", "...)
+		b = op.TotalLpm.AppendText(b)
+		b = append(b, " L/min total"...)
 	}
+	b = append(b, " (FiO2 "...)
+	b = op.FiO2Low.AppendText(b)
+	if op.FiO2High.Cmp(op.FiO2Low.Decimal) != 0 {
+		b = append(b, '-')
+		b = op.FiO2High.AppendText(b)
+	}
+	op.Label = string(append(b, ')'))
 	return op
 }
 
