@@ -85,9 +85,7 @@ func TestLogbookCreateRefusesWeakAndMismatchedPassphrases(t *testing.T) {
 // screen's start form.
 func openTestTransport(t *testing.T, l *logbookScreen, e app.TestEngine) {
 	t.Helper()
-	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
-	l.create(l.mctx, noEvent)
-	e.ConsumeAll()
+	createTestVault(l, e)
 	l.view = viewStart
 	l.start = lbStartFormFor("Rotor wing", "Mesa clinic", "Bay hospital")
 	l.startTransport(l.mctx, noEvent)
@@ -95,6 +93,13 @@ func openTestTransport(t *testing.T, l *logbookScreen, e app.TestEngine) {
 	if l.view != viewRecord || l.record.transport == nil {
 		t.Fatalf("start transport: view %q, problem %q", l.view, l.problem)
 	}
+}
+
+// createTestVault creates the vault through the screen's create form.
+func createTestVault(l *logbookScreen, e app.TestEngine) {
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
 }
 
 func lbStartFormFor(vehicle, origin, dest string) startForm {
@@ -481,9 +486,7 @@ func TestLogbookLockKeepsUnsavedEntry(t *testing.T) {
 func TestLogbookLockKeepsStartForm(t *testing.T) {
 	s := testSession(logbook.NewMemStore())
 	l, e := mountLogbook(t, s)
-	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
-	l.create(l.mctx, noEvent)
-	e.ConsumeAll()
+	createTestVault(l, e)
 	l.view = viewStart
 	l.start = lbStartFormFor("Rotor wing", "Mesa clinic", "Bay hospital")
 	l.lockNow(l.mctx, noEvent)
