@@ -1,8 +1,10 @@
 package ui
 
 import (
+	"cmp"
 	"context"
 	"fmt"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -27,6 +29,13 @@ type recordState struct {
 	noteText  string
 	outcome   string
 
+	// atText is the time control: blank means now; otherwise a clock time
+	// "hh:mm" that the next entry saved from a form or a one-tap button
+	// carries (lbEntryTime). It goes back to blank once that entry is
+	// saved, so the tap after it is not backdated by accident.
+	atText string
+	atMsg  string // why the typed time was refused ("" = not refused)
+
 	amendSeq    uint64 // the record being corrected (0: none)
 	amendReason string
 	amendVoid   bool
@@ -45,7 +54,7 @@ type lbObsForm struct {
 // typing, or an entry the store refused.
 func (r recordState) typed() bool {
 	return r.otherText != "" || r.gaugeText != "" || r.obs != (lbObsForm{}) || r.noteText != "" ||
-		r.outcome != "" || r.amendSeq != 0 || r.pending != ""
+		r.outcome != "" || r.amendSeq != 0 || r.pending != "" || r.atText != ""
 }
 
 func (l *logbookScreen) openTransport(ctx app.Context, id logbook.TransportID) {
@@ -101,9 +110,25 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 		return
 	}
 	e.Transport = r.id
+	given := false // the entry carries a time typed in the time control
 	if e.At.IsZero() {
-		e.At = time.Now()
+		var opened time.Time
+		if r.transport != nil {
+			opened = r.transport.Opened
+		}
+		now := l.now()
+		at, ok, err := lbEntryTime("Time of the entry", r.atText, now, opened)
+		if err != nil {
+			r.atMsg = err.Error()
+			l.problem = err.Error() + " Nothing was saved."
+			return
+		}
+		e.At, given = now, ok
+		if ok {
+			e.At = at
+		}
 	}
+	r.atMsg = ""
 	r.saving, r.pending = what, ""
 	var ie logbook.IndexEntry
 	var tr *logbook.Transport
@@ -126,6 +151,11 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 		}
 		r.saved = ie.Seq
 		l.status = "Saved " + what + " as " + ie.Record() + " at " + lbClock(ie.At) + "."
+		if given {
+			l.status = "Saved " + what + " as " + ie.Record() + " for " + lbClockMinute(ie.At) + " (a late entry, written at " + lbClock(e.Written) + ")."
+			r.atText = ""
+			lbClearInputs("lb-at")
+		}
 		if tr != nil {
 			r.transport = tr
 		}
@@ -226,7 +256,8 @@ func lbBriefText(bs []logbook.Timed[logbook.Brief]) string {
 	return s
 }
 
-// lbOneTap are the milestones saved with one tap, timed at the tap.
+// lbOneTap are the milestones saved with one tap, timed at the tap unless
+// the time control gives another time.
 var lbOneTap = []struct {
 	Type  logbook.EventType
 	Label string
@@ -240,6 +271,13 @@ var lbOneTap = []struct {
 	{logbook.EventHandover, "Handover"},
 }
 
+// tapEvent saves a one-tap milestone, timed now or at the time control's.
+func (l *logbookScreen) tapEvent(ctx app.Context, typ logbook.EventType, label string) {
+	l.save(ctx, strings.ToLower(label), func() (*logbook.Entry, error) {
+		return &logbook.Entry{Kind: logbook.KindEvent, Event: &logbook.Event{Type: typ}}, nil
+	}, nil)
+}
+
 func (l *logbookScreen) renderEntries() app.UI {
 	r := &l.record
 	u := l.units
@@ -248,11 +286,7 @@ func (l *logbookScreen) renderEntries() app.UI {
 		ev := ev
 		events = append(events, app.Button().Type("button").ID("lb-ev-"+string(ev.Type)).Class("alv-button lb-tap").
 			Text(ev.Label).Disabled(l.busy != "").
-			OnClick(func(ctx app.Context, e app.Event) {
-				l.save(ctx, strings.ToLower(ev.Label), func() (*logbook.Entry, error) {
-					return &logbook.Entry{Kind: logbook.KindEvent, Event: &logbook.Event{Type: ev.Type}}, nil
-				}, nil)
-			}))
+			OnClick(func(ctx app.Context, e app.Event) { l.tapEvent(ctx, ev.Type, ev.Label) }))
 	}
 	var cylInput app.UI
 	if t := r.transport; t != nil && len(t.Cylinders) > 0 {
@@ -269,8 +303,13 @@ func (l *logbookScreen) renderEntries() app.UI {
 		cylInput = textField("lb-gauge-cyl", "Cylinder label", r.gaugeCyl, "", func(ctx app.Context, t string) { r.gaugeCyl = t })
 	}
 	return app.Div().Class("alv-grid").Body(
+		app.Div().Class("alv-card lb-when").Body(
+			app.H2().Class("alv-card-title").Text("Time of the next entry"),
+			textField("lb-at", "Time (hh:mm, 24-hour; blank = now)", r.atText, r.atMsg, func(ctx app.Context, t string) { r.atText, r.atMsg = t, "" }),
+			app.P().ID("lb-at-note").Class("alv-note").Text("Leave blank to time entries now. For a late entry, type when it happened (within the last 24 hours, not before the transport opened): the next event, reading, observation, note or close saved takes that time, is marked as entered late, and the field goes back to blank."),
+		),
 		app.Div().Class("alv-card").Body(
-			app.H2().Class("alv-card-title").Text("Events (timed now)"),
+			app.H2().Class("alv-card-title").Text("Events"),
 			app.Div().Class("lb-taps").Body(events...),
 			app.Form().ID("lb-other").Class("lb-inline").OnSubmit(func(ctx app.Context, e app.Event) {
 				e.PreventDefault()
@@ -419,9 +458,13 @@ func (l *logbookScreen) renderClose() app.UI {
 	)
 }
 
-// renderTimeline shows every readable record of the transport in order.
-// A correction is its own line pointing at the record it corrects, and the
-// corrected line stays, marked with the correction's record.
+// renderTimeline shows every readable record of the transport as a course
+// of events: in the order of the times they carry (Entry.At), record number
+// breaking ties, so a late entry stands where it happened, with its record
+// number and an "entered HH:MM" mark (lbLateText). A correction carries the
+// time of the record it corrects, so it follows that record; it is its own
+// line pointing at it, and the corrected line stays, marked with the
+// correction's record.
 func (l *logbookScreen) renderTimeline() app.UI {
 	t := l.record.transport
 	amendedBy := map[uint64][]string{}
@@ -432,14 +475,18 @@ func (l *logbookScreen) renderTimeline() app.UI {
 	}
 	closed := !t.Closed.IsZero()
 	items := make([]app.UI, 0, len(t.History))
-	for _, e := range t.History {
+	for _, e := range lbInTimeOrder(t.History) {
 		e := e
+		late := lbLateText(e.At, e.Written)
 		cls := "lb-entry lb-kind-" + e.Kind.String()
 		if len(amendedBy[e.Seq]) > 0 {
 			cls += " lb-corrected"
 		}
 		items = append(items, app.Li().Class(cls).DataSet("seq", strconv.FormatUint(e.Seq, 10)).Body(
 			app.Span().Class("lb-time alv-num-cell").Text(lbClock(e.At)),
+			app.If(late != "", func() app.UI {
+				return app.Span().Class("lb-flag lb-flag-late").Title("written to the log at " + lbClock(e.Written) + ", later than the time it gives").Text(late)
+			}),
 			app.Span().Class("lb-rec").Text(logbook.RecordName(e.Seq)),
 			app.Span().Class("lb-what").Text(lbDescribe(e, l.units)),
 			app.If(len(amendedBy[e.Seq]) > 0, func() app.UI {
@@ -471,6 +518,19 @@ func (l *logbookScreen) renderTimeline() app.UI {
 				app.P().Text("Records of this transport that could not be read:"), app.Ul().Body(probs...))
 		}),
 	)
+}
+
+// lbInTimeOrder returns the records ordered by the time they carry, record
+// number breaking ties; history itself is left in record order.
+func lbInTimeOrder(history []*logbook.Entry) []*logbook.Entry {
+	out := slices.Clone(history)
+	slices.SortStableFunc(out, func(a, b *logbook.Entry) int {
+		if c := a.At.Compare(b.At); c != 0 {
+			return c
+		}
+		return cmp.Compare(a.Seq, b.Seq)
+	})
+	return out
 }
 
 // lbDescribe is one entry's line in the timeline.

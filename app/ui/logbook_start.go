@@ -27,12 +27,16 @@ type startForm struct {
 	briefNote             string // what the Brief gave, or why no snapshot
 	originMsg, destMsg    string
 	weightMsg, vehicleMsg string
+	// at is when the transport opened, as hh:mm (blank = now): a crew that
+	// starts the log after taking the patient on gives the real time
+	// (lbEntryTime; the same rule as the record view's time control).
+	at, atMsg string
 }
 
 // typed reports whether the crew has filled in any field of the form.
 func (f startForm) typed() bool {
 	return f.vehicle != "" || f.crew != "" || f.origin != "" || f.originElev != "" || f.dest != "" ||
-		f.destElev != "" || f.age != "" || f.sex != "" || f.weight != "" || f.identifying != ""
+		f.destElev != "" || f.age != "" || f.sex != "" || f.weight != "" || f.identifying != "" || f.at != ""
 }
 
 // prepareStart reads the current Brief draft and computes its plan.
@@ -167,6 +171,7 @@ func (l *logbookScreen) renderStart() app.UI {
 					app.P().ID("lb-ident-warn").Class("lb-ident-warn").Text("Stored encrypted, but it identifies the patient: anyone with the passphrase, and any auditor you send a bundle to, reads it. Leave it empty unless your service requires it."),
 				),
 			),
+			textField("lb-start-at", "Opened at (hh:mm, 24-hour; blank = now)", f.at, f.atMsg, func(ctx app.Context, t string) { f.at, f.atMsg = t, "" }),
 			app.Button().Type("submit").ID("lb-start-go").Class("alv-button alv-primary").Text("Start transport").Disabled(l.busy != ""),
 		),
 	)
@@ -204,10 +209,18 @@ func (l *logbookScreen) startTransport(ctx app.Context, e app.Event) {
 	if strings.TrimSpace(f.vehicle) == "" {
 		f.vehicleMsg = "Name the vehicle or aircraft type."
 	}
-	if om != "" || dm != "" || f.weightMsg != "" || f.vehicleMsg != "" {
+	now := l.now()
+	at, given, err := lbEntryTime("Opened at", f.at, now, time.Time{})
+	f.atMsg = ""
+	if err != nil {
+		f.atMsg = err.Error()
+	}
+	if om != "" || dm != "" || f.weightMsg != "" || f.vehicleMsg != "" || f.atMsg != "" {
 		return
 	}
-	now := time.Now()
+	if given {
+		now = at
+	}
 	id := logbook.NewTransportID(now)
 	entry := &logbook.Entry{Transport: id, Kind: logbook.KindOpen, At: now, Open: &logbook.Opening{
 		Vehicle:     strings.TrimSpace(f.vehicle),

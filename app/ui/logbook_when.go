@@ -1,0 +1,106 @@
+package ui
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+	"time"
+)
+
+// Late entries. A crew busy with the patient taps "Lift-off" ten minutes
+// late, or writes a reading up afterwards: the time control lets them give
+// when it happened as a clock time. The record keeps both times (Entry.At as
+// given, Entry.Written by the vault), and the timeline shows the second
+// beside the first when they differ by more than lbLateMark.
+
+// lbLateMark is how far an entry's record may be written after the time it
+// carries before the timeline marks it "entered HH:MM". An entry timed now is
+// written within seconds of its tap (the store's write, a short wait while
+// the logbook is busy), and a clock time typed to the minute can be up to
+// 59 s earlier than the moment it was meant for; three minutes clears both,
+// so the mark never appears on an entry timed now, yet it shows a time given
+// a few minutes back, which an auditor reading the timeline needs to see.
+const lbLateMark = 3 * time.Minute
+
+// lbLookBack is how far back a typed time may reach: a clock time names a
+// moment only within one day.
+const lbLookBack = 24 * time.Hour
+
+// lbEntryTime resolves the time control's text for an entry saved at now.
+// Blank gives (zero, false, nil): the entry is timed now. Otherwise text is
+// a 24-hour clock time "hh:mm" (local time of the tablet, as now's
+// location), resolved to the latest moment at or before now with that clock
+// time: 23:50 typed at 00:10 is yesterday 23:50. Refused, with a sentence
+// naming field, the allowed range and the format: text that is not hh:mm
+// from 00:00 to 23:59; a time more than 24 h before now; a time before
+// opened (the transport's opening entry; zero: no such bound).
+func lbEntryTime(field, text string, now, opened time.Time) (time.Time, bool, error) {
+	text = strings.TrimSpace(text)
+	if text == "" {
+		return time.Time{}, false, nil
+	}
+	hour, minute, ok := lbParseClock(text)
+	if !ok {
+		return time.Time{}, false, fmt.Errorf("%s: %q is not a clock time. Type hh:mm in 24-hour time, 00:00 to 23:59 (for example 09:05), or leave it blank for now.", field, text)
+	}
+	y, mo, d := now.Date()
+	at := time.Date(y, mo, d, hour, minute, 0, 0, now.Location())
+	if at.After(now) {
+		at = time.Date(y, mo, d-1, hour, minute, 0, 0, now.Location())
+	}
+	if now.Sub(at) > lbLookBack {
+		return time.Time{}, false, fmt.Errorf("%s: %s would be %s, more than 24 h ago. Give a time within the last 24 hours as hh:mm (24-hour), or leave it blank for now.", field, text, lbDayMinute(at))
+	}
+	if !opened.IsZero() && at.Before(opened) {
+		return time.Time{}, false, fmt.Errorf("%s: %s (%s) is before the transport opened (%s). Give a time from the opening to now as hh:mm (24-hour), or leave it blank for now.", field, text, lbDayMinute(at), lbDayMinute(opened)+":"+opened.Local().Format("05"))
+	}
+	return at, true, nil
+}
+
+// lbParseClock reads "h:mm" or "hh:mm", hours 0–23, minutes 00–59.
+func lbParseClock(text string) (hour, minute int, ok bool) {
+	hs, ms, found := strings.Cut(text, ":")
+	if !found || len(hs) < 1 || len(hs) > 2 || len(ms) != 2 {
+		return 0, 0, false
+	}
+	for _, c := range hs + ms {
+		if c < '0' || c > '9' {
+			return 0, 0, false
+		}
+	}
+	hour, _ = strconv.Atoi(hs)
+	minute, _ = strconv.Atoi(ms)
+	if hour > 23 || minute > 59 {
+		return 0, 0, false
+	}
+	return hour, minute, true
+}
+
+// lbClockMinute is a time as the crew types it: hh:mm, local time.
+func lbClockMinute(t time.Time) string { return t.Local().Format("15:04") }
+
+// lbDayMinute names the day too, for refusals that cross midnight.
+func lbDayMinute(t time.Time) string { return t.Local().Format("2006-01-02 15:04") }
+
+// lbLateText is the timeline's mark for an entry written more than
+// lbLateMark after the time it carries ("" for one timed as it happened).
+func lbLateText(at, written time.Time) string {
+	if written.IsZero() || written.Sub(at) <= lbLateMark {
+		return ""
+	}
+	return "entered " + lbClockMinute(written)
+}
+
+// now is the screen's clock: the session's (a test's fixed clock, shared
+// with the vault) or the tablet's.
+func (l *logbookScreen) now() time.Time {
+	if s := l.session; s != nil {
+		s.mu.Lock()
+		now := s.now
+		s.mu.Unlock()
+		if now != nil {
+			return now()
+		}
+	}
+	return time.Now()
+}
