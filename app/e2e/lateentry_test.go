@@ -1,0 +1,104 @@
+//go:build !wasm
+
+package e2e
+
+import (
+	"fmt"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/cdproto/emulation"
+	"github.com/chromedp/chromedp"
+)
+
+// A late entry in the browser (the rule in DEVELOPERS.md, Logbook): the crew
+// opens the transport giving an opening time 12 minutes back, then types a
+// clock time 5 minutes back and taps Lift-off. The timeline shows that time
+// and marks the entry "entered HH:MM"; the time control is blank again; a
+// malformed time shows its message and saves nothing; after a reload and
+// unlock the late entry is there with its time. The tablet's zone is fixed
+// to Asia/Kathmandu (UTC+05:45 all year, no summer time: the IANA time zone
+// database), an offset no UTC reading could pass for, so the test checks
+// that the clock time is the tablet's local time.
+func TestLogbookLateEntry(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	if _, err := chromedp.Call(b.ctx, emulation.SetTimezoneOverride, emulation.SetTimezoneOverrideParams{TimezoneID: "Asia/Kathmandu"}); err != nil {
+		t.Fatalf("time zone override: %v", err)
+	}
+	zone := time.FixedZone("UTC+05:45", 5*3600+45*60)
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+
+	now := time.Now().In(zone)
+	opened := now.Add(-12 * time.Minute)
+	b.tap("#lb-nav-start")
+	b.waitLB("the start form", `document.querySelector("#lb-start") !== null`, 10*time.Second)
+	b.typeInto("#lb-vehicle", "Pilatus PC-12")
+	b.typeInto("#lb-crew", "ef gh")
+	b.typeInto("#lb-origin", "Valley airstrip")
+	b.typeInto("#lb-origin-elev", "1400")
+	b.typeInto("#lb-dest", "City hospital")
+	b.typeInto("#lb-dest-elev", "40")
+	b.typeInto("#lb-start-at", opened.Format("15:04"))
+	b.tap("#lb-start-go")
+	b.waitLB("the transport timeline", `document.querySelector("#lb-timeline li[data-seq]") !== null`, 20*time.Second)
+
+	lift := now.Add(-5 * time.Minute)
+	b.typeInto("#lb-at", lift.Format("15:04"))
+	b.tap("#lb-ev-lift-off")
+	b.waitSeqs(2)
+	if v := b.value("#lb-at"); v != "" {
+		t.Errorf("the time control holds %q after saving, want blank (now)", v)
+	}
+	if s := b.text("#lb-status"); !strings.Contains(s, "for "+lift.Format("15:04")) {
+		t.Errorf("status %q does not name the time given (%s)", s, lift.Format("15:04"))
+	}
+	checkLate := func(when string) {
+		t.Helper()
+		at := b.text(`#lb-timeline li[data-seq="2"] .lb-time`)
+		if want := lift.Format("15:04") + ":00"; at != want {
+			t.Errorf("%s: the lift-off shows %q, want %q", when, at, want)
+		}
+		mark := b.text(`#lb-timeline li[data-seq="2"] .lb-flag-late`)
+		// Written is the moment of the tap: this minute or the next.
+		if a, c := "entered "+now.Format("15:04"), "entered "+now.Add(time.Minute).Format("15:04"); mark != a && mark != c {
+			t.Errorf("%s: the lift-off's mark is %q, want %q", when, mark, a)
+		}
+		if !strings.Contains(b.text(`#lb-timeline li[data-seq="2"]`), "lift-off") {
+			t.Errorf("%s: R2 is not the lift-off: %s", when, b.timelineText())
+		}
+	}
+	checkLate("after saving")
+
+	// A malformed time: the message names the field, the range and the
+	// format; nothing is saved and the time stays in its field.
+	b.typeInto("#lb-at", "7.5")
+	b.tap("#lb-ev-landing")
+	b.waitLB("the refusal", `(document.querySelector("#lb-problem")?.textContent ?? "").includes("Time of the entry")`, 10*time.Second)
+	p := b.text("#lb-problem")
+	for _, want := range []string{"hh:mm", "00:00 to 23:59", "Nothing was saved"} {
+		if !strings.Contains(p, want) {
+			t.Errorf("the refusal %q lacks %q", p, want)
+		}
+	}
+	time.Sleep(500 * time.Millisecond) // a save, had one started, would show by now
+	if got := b.savedSeqs(); fmt.Sprint(got) != "[1 2]" || b.exists(".lb-busy") {
+		t.Errorf("a malformed time saved something: records %v", got)
+	}
+	if v := b.value("#lb-at"); v != "7.5" {
+		t.Errorf("the refused time is not kept in its field: %q", v)
+	}
+
+	b.reload()
+	b.waitLB("the unlock form", `document.querySelector("#lb-unlock") !== null`, 30*time.Second)
+	b.unlock(testPass)
+	b.waitLB("the list", `document.querySelector("#lb-list tr[data-transport]") !== null`, 20*time.Second)
+	b.tap("#lb-list tbody tr button")
+	b.waitSeqs(2)
+	checkLate("after reload and unlock")
+	if at := b.text(`#lb-timeline li[data-seq="1"] .lb-time`); at != opened.Format("15:04")+":00" {
+		t.Errorf("the opening shows %q, want %s:00", at, opened.Format("15:04"))
+	}
+}
