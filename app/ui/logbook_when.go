@@ -32,8 +32,10 @@ const lbLookBack = 24 * time.Hour
 // location), resolved to the latest moment at or before now with that clock
 // time: 23:50 typed at 00:10 is yesterday 23:50. Refused, with a sentence
 // naming field, the allowed range and the format: text that is not hh:mm
-// from 00:00 to 23:59; a time more than 24 h before now; a time before
-// opened (the transport's opening entry; zero: no such bound).
+// from 00:00 to 23:59; a clock time the day skipped (summer time began);
+// a time more than 24 h before now (only across the day summer time
+// ends); a time before opened (the transport's opening entry; zero: no
+// such bound).
 func lbEntryTime(field, text string, now, opened time.Time) (time.Time, bool, error) {
 	text = strings.TrimSpace(text)
 	if text == "" {
@@ -47,6 +49,10 @@ func lbEntryTime(field, text string, now, opened time.Time) (time.Time, bool, er
 	at := time.Date(y, mo, d, hour, minute, 0, 0, now.Location())
 	if at.After(now) {
 		at = time.Date(y, mo, d-1, hour, minute, 0, 0, now.Location())
+	}
+	if at.Hour() != hour || at.Minute() != minute {
+		// The clock skipped this time (summer time began): no moment has it.
+		return time.Time{}, false, fmt.Errorf("%s: %s did not occur on %s (the clock skipped it when summer time began). Give a time within the last 24 hours as hh:mm (24-hour), or leave it blank for now.", field, text, at.Format("2006-01-02"))
 	}
 	if now.Sub(at) > lbLookBack {
 		return time.Time{}, false, fmt.Errorf("%s: %s would be %s, more than 24 h ago. Give a time within the last 24 hours as hh:mm (24-hour), or leave it blank for now.", field, text, lbDayMinute(at))

@@ -81,6 +81,26 @@ func TestLbEntryTimeMoreThanADay(t *testing.T) {
 	}
 }
 
+// The day summer time begins (EU: last Sunday of March at 01:00 UTC,
+// Directive 2000/84/EC art. 2: 30 March 2031) the Berlin clock goes from
+// 02:00 to 03:00, so 02:30 never happens that day: refused, not moved.
+func TestLbEntryTimeSkippedByTheClock(t *testing.T) {
+	berlin, err := time.LoadLocation("Europe/Berlin")
+	if err != nil {
+		t.Fatal(err)
+	}
+	now := time.Date(2031, 3, 30, 4, 0, 0, 0, berlin)
+	_, _, err = lbEntryTime("Time of the entry", "02:30", now, time.Time{})
+	if err == nil || !strings.Contains(err.Error(), "did not occur on 2031-03-30") || !strings.Contains(err.Error(), "hh:mm") {
+		t.Errorf("02:30 on the day the clock skips it: %v", err)
+	}
+	// 01:30 happened (CET), 2 h 30 min of clock time but 1 h 30 min ago.
+	got, _, err := lbEntryTime("Time of the entry", "01:30", now, time.Time{})
+	if err != nil || now.Sub(got) != 90*time.Minute {
+		t.Errorf("01:30 at 04:00 that day: %v (%v ago), %v", got, now.Sub(got), err)
+	}
+}
+
 func TestLbLateText(t *testing.T) {
 	at := time.Date(2031, 3, 14, 10, 2, 0, 0, time.Local)
 	if s := lbLateText(at, at.Add(lbLateMark)); s != "" {
