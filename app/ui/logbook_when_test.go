@@ -192,3 +192,40 @@ func TestLogbookLateEntry(t *testing.T) {
 		t.Error("an entry timed now is marked as entered late")
 	}
 }
+
+// The start form's "Opened at" follows the same rule: a malformed time is
+// refused in its field and no transport is started; a good one times the
+// opening.
+func TestLogbookStartOpenedAt(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	clock := time.Date(2031, 3, 14, 10, 0, 0, 0, time.Local)
+	s.now = func() time.Time { return clock }
+	l, e := mountLogbook(t, s)
+	l.access = accessForm{pass: uiTestPass, again: uiTestPass}
+	l.create(l.mctx, noEvent)
+	e.ConsumeAll()
+	l.view = viewStart
+	l.start = lbStartFormFor("Rotor wing", "Mesa clinic", "Bay hospital")
+	l.start.at = "9h45"
+	l.startTransport(l.mctx, noEvent)
+	e.ConsumeAll()
+	if !strings.Contains(l.start.atMsg, "Opened at") || !strings.Contains(l.start.atMsg, "hh:mm") || l.view != viewStart {
+		t.Fatalf("a malformed opening time: message %q, view %q", l.start.atMsg, l.view)
+	}
+	l.start.at = "9:45"
+	l.startTransport(l.mctx, noEvent)
+	e.ConsumeAll()
+	if l.view != viewRecord || l.record.transport == nil {
+		t.Fatalf("start with 9:45: view %q, problem %q", l.view, l.problem)
+	}
+	if want := time.Date(2031, 3, 14, 9, 45, 0, 0, time.Local); !l.record.transport.Opened.Equal(want) {
+		t.Errorf("opened %v, want %v", l.record.transport.Opened, want)
+	}
+	// An entry before that opening is refused.
+	l.record.atText = "09:40"
+	l.tapEvent(l.mctx, logbook.EventDepart, "Depart")
+	e.ConsumeAll()
+	if !strings.Contains(l.problem, "before the transport opened") || len(l.record.transport.History) != 1 {
+		t.Errorf("an entry before the opening: problem %q, %d records", l.problem, len(l.record.transport.History))
+	}
+}
