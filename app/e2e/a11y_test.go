@@ -77,13 +77,26 @@ func TestNothingScrolledUnderStickyHeader(t *testing.T) {
 		{"the origin field", `document.getElementById("b-rt-origin").scrollIntoView()`, `document.getElementById("b-rt-origin")`},
 		{"leg 1's minutes", `document.getElementById("b-leg0-min").scrollIntoView()`, `document.getElementById("b-leg0-min")`},
 	}
+	// settled waits until the page has not scrolled for five frames: go-app
+	// scrolls to a link's target itself, a frame or more after the click.
+	const settled = `new Promise(res => {
+		let last = -1, still = 0, frames = 0;
+		const step = () => {
+			still = window.scrollY === last ? still + 1 : 0;
+			last = window.scrollY;
+			if (still >= 5 || ++frames > 300) { res(true); return; }
+			requestAnimationFrame(step);
+		};
+		requestAnimationFrame(step);
+	})`
 	for _, c := range cases {
-		eval[bool](b, `(window.scrollTo(0, document.documentElement.scrollHeight), true)`)
+		eval[bool](b, `(async () => { window.scrollTo(0, document.documentElement.scrollHeight); return await `+settled+`; })()`)
 		if eval[float64](b, `window.scrollY`) < 200 {
 			t.Fatal("the Brief does not scroll: the check would prove nothing")
 		}
-		gap := eval[float64](b, `(() => {
+		gap := eval[float64](b, `(async () => {
 			`+c.scroll+`;
+			await `+settled+`;
 			return `+c.shown+`.getBoundingClientRect().top - document.querySelector(".alv-header").getBoundingClientRect().bottom;
 		})()`)
 		if gap < 0 {
