@@ -84,6 +84,18 @@ func (b *browser) startTransport(vehicle, origin, dest string) {
 	b.waitLB("the transport timeline", `document.querySelector("#lb-timeline li[data-seq]") !== null`, 20*time.Second)
 }
 
+// liftOffAndReading taps Lift-off and saves a gauge reading of 1800 on
+// cylinder A: records 2 and 3 of a transport just started.
+func (b *browser) liftOffAndReading() {
+	b.t.Helper()
+	b.tap("#lb-ev-lift-off")
+	b.waitSeqs(2)
+	b.typeInto("#lb-gauge-cyl", "A")
+	b.typeInto("#lb-gauge-p", "1800")
+	b.tap("#lb-gauge-go")
+	b.waitSeqs(3)
+}
+
 // savedSeqs returns the record numbers the timeline shows (shown = saved).
 func (b *browser) savedSeqs() []int {
 	b.t.Helper()
@@ -110,12 +122,7 @@ func TestLogbookRecordReloadUnlock(t *testing.T) {
 	b.createVault(testPass)
 	b.startTransport("King Air B200", "Plateau clinic", "Coast hospital")
 
-	b.tap("#lb-ev-lift-off")
-	b.waitSeqs(2)
-	b.typeInto("#lb-gauge-cyl", "A")
-	b.typeInto("#lb-gauge-p", "1800")
-	b.tap("#lb-gauge-go")
-	b.waitSeqs(3)
+	b.liftOffAndReading()
 	if v := b.value("#lb-gauge-p"); v != "" {
 		t.Errorf("the saved reading stays in its field: %q", v)
 	}
@@ -529,12 +536,7 @@ func TestLogbookAccessibilityAndScreenshots(t *testing.T) {
 	check("create")
 	b.createVault(testPass)
 	b.startTransport("King Air B200", "Plateau clinic", "Coast hospital")
-	b.tap("#lb-ev-lift-off")
-	b.waitSeqs(2)
-	b.typeInto("#lb-gauge-cyl", "A")
-	b.typeInto("#lb-gauge-p", "1800")
-	b.tap("#lb-gauge-go")
-	b.waitSeqs(3)
+	b.liftOffAndReading()
 	b.typeInto("#lb-obs-spo2", "93")
 	b.typeInto("#lb-obs-fio2", "0.4")
 	b.tap("#lb-obs-go")

@@ -36,8 +36,10 @@ func BenchmarkBriefKeystroke(b *testing.B) {
 	}
 }
 
-// BenchmarkBriefRead is reading the form and computing the plan alone.
-func BenchmarkBriefRead(b *testing.B) {
+// benchScenario is a Brief holding our own scenario (scenarioDraft), its
+// plan computed.
+func benchScenario(b *testing.B) *briefState {
+	b.Helper()
 	d := scenarioDraft()
 	s := newBriefWith(&memDraftStore{draft: &d}).s
 	s.draft = d
@@ -45,6 +47,12 @@ func BenchmarkBriefRead(b *testing.B) {
 	if !s.model.ok() {
 		b.Fatal("the scenario did not compute")
 	}
+	return s
+}
+
+// BenchmarkBriefRead is reading the form and computing the plan alone.
+func BenchmarkBriefRead(b *testing.B) {
+	s := benchScenario(b)
 	for i := 0; i < b.N; i++ {
 		s.recompute()
 	}
@@ -53,13 +61,7 @@ func BenchmarkBriefRead(b *testing.B) {
 // BenchmarkBriefPack is writing out the result panel for the direct path
 // (the texts of every figure, warning and option), the plan computed.
 func BenchmarkBriefPack(b *testing.B) {
-	d := scenarioDraft()
-	s := newBriefWith(&memDraftStore{draft: &d}).s
-	s.draft = d
-	s.recompute()
-	if !s.model.ok() {
-		b.Fatal("the scenario did not compute")
-	}
+	s := benchScenario(b)
 	var p panelPack
 	b.ReportAllocs()
 	for i := 0; i < b.N; i++ {
