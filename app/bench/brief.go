@@ -143,6 +143,11 @@ func briefLatency(alvea *program, r *report) error {
 		return err
 	}
 	defer c.throttle(1)
+	if *briefProf != "" {
+		if err := c.startProfile(); err != nil {
+			return err
+		}
+	}
 	digits := "5679432"
 	missed := 0
 	var first, settled []float64
@@ -172,6 +177,13 @@ func briefLatency(alvea *program, r *report) error {
 		}
 		first = append(first, got[0])
 		settled = append(settled, got[1])
+	}
+	if *briefProf != "" {
+		if err := c.stopProfile(*briefProf); err != nil {
+			return err
+		}
+		progress("Brief: CPU profile of the keystrokes written to %s; its timings are left out of the report", *briefProf)
+		return nil
 	}
 	value, _ := evalJS[string](c, fmt.Sprintf(`document.querySelector(%q).value`, field))
 	if len(first) == 0 {

@@ -4,13 +4,16 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"os"
 	"time"
 
+	"github.com/chromedp/cdproto/cdp"
 	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/cdproto/page"
+	"github.com/chromedp/cdproto/profiler"
 	"github.com/chromedp/chromedp"
 
 	"alvea/app/internal/chromium"
@@ -134,4 +137,30 @@ func (c *chrome) pick(sel, value string) error {
 		return fmt.Errorf("select %s: no option %q", sel, value)
 	}
 	return nil
+}
+
+// startProfile starts V8's sampling profiler in the tab (every 100 µs).
+func (c *chrome) startProfile() error {
+	if _, err := chromedp.Call(c.ctx, profiler.Enable, cdp.Empty{}); err != nil {
+		return err
+	}
+	if _, err := chromedp.Call(c.ctx, profiler.SetSamplingInterval, profiler.SetSamplingIntervalParams{Interval: 100}); err != nil {
+		return err
+	}
+	_, err := chromedp.Call(c.ctx, profiler.Start, cdp.Empty{})
+	return err
+}
+
+// stopProfile stops the profiler and writes its profile to file, in the
+// .cpuprofile format DevTools opens.
+func (c *chrome) stopProfile(file string) error {
+	res, err := chromedp.Call(c.ctx, profiler.Stop, cdp.Empty{})
+	if err != nil {
+		return err
+	}
+	b, err := json.Marshal(res.Profile)
+	if err != nil {
+		return err
+	}
+	return os.WriteFile(file, b, 0o644)
 }

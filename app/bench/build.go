@@ -65,6 +65,10 @@ func buildBoth(repo, work string) (*program, *program, error) {
 	}
 	for _, b := range builds {
 		args := append([]string{"build"}, buildFlags...)
+		if b.wasm && *briefProf != "" {
+			// Keep the names of functions, for the profile.
+			args = []string{"build", "-trimpath"}
+		}
 		args = append(args, "-o", b.out, b.pkg)
 		cmd := exec.Command("go", args...)
 		cmd.Dir = repo

@@ -46,6 +46,7 @@ var (
 	skipWeb   = flag.Bool("skip-browser", false, "leave out the Chromium figures")
 	keepWork  = flag.Bool("keep", false, "keep the build directory (its path is printed)")
 	probeWait = flag.Int("probe", -1, "print the phases of warm starts, reloads this many seconds apart, and stop (-1: off)")
+	briefProf = flag.String("brief-profile", "", "write a CPU profile of the Brief's timed keystrokes to this file (.cpuprofile, for DevTools; the profiler slows the page, so its timings are not reported then)")
 	only      = flag.String("only", "", "measure only these parts, comma-separated: sizes, start, brief, vault, native (all when empty; the report then covers only those)")
 )
 
