@@ -3,6 +3,7 @@ package ui
 import (
 	"cmp"
 	"context"
+	"errors"
 	"fmt"
 	"slices"
 	"strconv"
@@ -110,6 +111,12 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 		return
 	}
 	e.Transport = r.id
+	if t := r.transport; t != nil && !t.Closed.IsZero() && e.Kind != logbook.KindAmend {
+		// The forms are gone once the transport is closed; this guards
+		// any other way in (RECORD-MODEL: only corrections follow a close).
+		l.problem = lbClosedRefusal(t) + " Nothing was saved."
+		return
+	}
 	given := false // the entry carries a time typed in the time control
 	if e.At.IsZero() {
 		var opened time.Time
@@ -117,7 +124,7 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 			opened = r.transport.Opened
 		}
 		now := l.now()
-		at, ok, err := lbEntryTime("Time of the entry", r.atText, now, opened)
+		at, ok, err := lbEntryTime(lbAtField, r.atText, now, opened)
 		if err != nil {
 			r.atMsg = err.Error()
 			l.problem = err.Error() + " Nothing was saved."
@@ -128,12 +135,27 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 			e.At = at
 		}
 	}
+	if e.Kind == logbook.KindClose && r.transport != nil {
+		if msg := lbCloseRefusal(lbAtField, e.At, given, r.transport); msg != "" {
+			r.atMsg = msg
+			l.problem = msg + " Nothing was saved."
+			return
+		}
+	}
 	r.atMsg = ""
 	r.saving, r.pending = what, ""
 	var ie logbook.IndexEntry
 	var tr *logbook.Transport
 	l.run(ctx, "Saving "+what+"…", func(c context.Context) error {
 		var err error
+		if e.Kind == logbook.KindClose {
+			// Checked again against the transport as the vault holds it
+			// now: an entry saved from the Supply screen since this one
+			// was read counts too.
+			if err := lbCloseCheckStored(c, l.session, lbAtField, e, given); err != nil {
+				return err
+			}
+		}
 		if ie, err = l.session.Append(c, e); err != nil {
 			return err
 		}
@@ -144,6 +166,17 @@ func (l *logbookScreen) save(ctx app.Context, what string, build func() (*logboo
 		return nil
 	}, func(ctx app.Context, err error) {
 		r.saving = ""
+		var refused *lbRefusal
+		if errors.As(err, &refused) {
+			// Refused by the log's own rules, not by the store: the entry
+			// stays in its form, a refused time in its field with the
+			// reason beside it.
+			if refused.ofTime {
+				r.atMsg = refused.Error()
+			}
+			l.problem = refused.Error() + " Nothing was saved."
+			return
+		}
 		if err != nil {
 			r.pending = what
 			l.problem = vaultMessage(err)
@@ -444,14 +477,19 @@ func (l *logbookScreen) saveNote(ctx app.Context, e app.Event) {
 	}, func() { r.noteText = ""; lbClearInputs("lb-note-text") })
 }
 
+// saveClose closes the transport, timed now or at the time control's; a
+// time before the transport's latest entry is refused (lbCloseRefusal).
+func (l *logbookScreen) saveClose(ctx app.Context, e app.Event) {
+	e.PreventDefault()
+	r := &l.record
+	l.save(ctx, "close", func() (*logbook.Entry, error) {
+		return &logbook.Entry{Kind: logbook.KindClose, Close: &logbook.Closing{Outcome: strings.TrimSpace(r.outcome)}}, nil
+	}, func() { r.outcome = ""; lbClearInputs("lb-outcome") })
+}
+
 func (l *logbookScreen) renderClose() app.UI {
 	r := &l.record
-	return app.Form().ID("lb-close").Class("alv-card").OnSubmit(func(ctx app.Context, e app.Event) {
-		e.PreventDefault()
-		l.save(ctx, "close", func() (*logbook.Entry, error) {
-			return &logbook.Entry{Kind: logbook.KindClose, Close: &logbook.Closing{Outcome: strings.TrimSpace(r.outcome)}}, nil
-		}, func() { r.outcome = ""; lbClearInputs("lb-outcome") })
-	}).Body(
+	return app.Form().ID("lb-close").Class("alv-card").OnSubmit(l.saveClose).Body(
 		app.H2().Class("alv-card-title").Text("Close transport"),
 		textField("lb-outcome", "Outcome", r.outcome, "", func(ctx app.Context, t string) { r.outcome = t }),
 		app.Button().Type("submit").ID("lb-close-go").Class("alv-button").Text("Close transport"),

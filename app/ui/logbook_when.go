@@ -1,10 +1,13 @@
 package ui
 
 import (
+	"context"
 	"fmt"
 	"strconv"
 	"strings"
 	"time"
+
+	"alvea/app/logbook"
 )
 
 // Late entries. A crew busy with the patient taps "Lift-off" ten minutes
@@ -109,4 +112,102 @@ func (l *logbookScreen) now() time.Time {
 		}
 	}
 	return time.Now()
+}
+
+// lbAtField names the Logbook's time control in its refusals.
+const lbAtField = "Time of the entry"
+
+// lbRefusal is an entry refused by the log's own rules (its time, a
+// closed transport) in the work that saves it, told apart from a refusal
+// by the store: nothing was written and the entry is not "not saved" in
+// the store's sense, it needs the crew's change. ofTime: the time given
+// is the reason, shown beside the time control.
+type lbRefusal struct {
+	text   string
+	ofTime bool
+}
+
+func (r *lbRefusal) Error() string { return r.text }
+
+// lbLatestEntry returns the record number and time of the record of t
+// that carries the latest time, as the timeline reads it: a correction
+// that replaces a record gives it its own time, one that withdraws it
+// takes it out (as logbook's fold does). ok is false when t has no such
+// record.
+func lbLatestEntry(t *logbook.Transport) (seq uint64, at time.Time, ok bool) {
+	current := map[uint64]time.Time{}
+	withdrawn := map[uint64]bool{}
+	var order []uint64
+	for _, e := range t.History {
+		if e.Kind != logbook.KindAmend {
+			current[e.Seq] = e.At
+			order = append(order, e.Seq)
+			continue
+		}
+		if _, known := current[e.Amends]; !known {
+			continue
+		}
+		withdrawn[e.Amends] = e.Void
+		if !e.Void {
+			current[e.Amends] = e.At
+		}
+	}
+	for _, s := range order {
+		if withdrawn[s] {
+			continue
+		}
+		if a := current[s]; !ok || !a.Before(at) {
+			seq, at, ok = s, a, true
+		}
+	}
+	return seq, at, ok
+}
+
+// lbCloseRefusal returns why a close timed at (given: typed in the time
+// control named field; otherwise the tablet's clock) cannot close t, or
+// "". A close is the transport's last entry: at must not be before the
+// latest entry t holds (lbLatestEntry), so that the timeline, ordered by
+// time, ends with it and the audit's "after the close" means what it says.
+func lbCloseRefusal(field string, at time.Time, given bool, t *logbook.Transport) string {
+	seq, latest, ok := lbLatestEntry(t)
+	if !ok || !at.Before(latest) {
+		return ""
+	}
+	bound := lbDayMinute(latest) + ":" + latest.Local().Format("05")
+	if !given {
+		return fmt.Sprintf("%s: the tablet's clock reads %s, before %s, the latest entry of this transport (%s). A close comes after every entry: check the tablet's clock, or give the close's time as hh:mm (24-hour), from %s to now.", field, lbDayMinute(at), logbook.RecordName(seq), bound, lbClockMinute(latest.Add(time.Minute-1)))
+	}
+	return fmt.Sprintf("%s: a close at %s (%s) would come before %s, the latest entry of this transport (%s). A close comes after every entry: give a time from %s to now as hh:mm (24-hour), or leave it blank for now.", field, lbClockMinute(at), lbDayMinute(at), logbook.RecordName(seq), bound, lbClockMinute(latest.Add(time.Minute-1)))
+}
+
+// lbClosedRefusal says why t, closed, takes no new entry.
+func lbClosedRefusal(t *logbook.Transport) string {
+	return "This transport was closed at " + lbDayMinute(t.Closed) + ": it takes no new entry. A correction of one of its records is still possible (Correct, in the Logbook's timeline) and is flagged as made after the close."
+}
+
+// lbCloseCheckStored reads e's transport as the vault holds it and refuses
+// (*lbRefusal) a new entry when it is closed, and a close timed before its
+// latest entry (lbCloseRefusal). Corrections pass: they are allowed after
+// the close, which the timeline and the audit flag.
+func lbCloseCheckStored(c context.Context, s *vaultSession, field string, e *logbook.Entry, given bool) error {
+	if e.Kind == logbook.KindAmend {
+		return nil
+	}
+	v, err := s.Vault()
+	if err != nil {
+		return err
+	}
+	t, err := v.Transport(c, e.Transport)
+	if err != nil {
+		return err
+	}
+	if !t.Closed.IsZero() {
+		return &lbRefusal{text: lbClosedRefusal(t)}
+	}
+	if e.Kind == logbook.KindClose {
+		if msg := lbCloseRefusal(field, e.At, given, t); msg != "" {
+			return &lbRefusal{text: msg, ofTime: true}
+		}
+	}
+	return nil
 }
