@@ -2,8 +2,10 @@ package ui
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
+	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -23,6 +25,14 @@ import (
 //
 // When several transports are open, the one opened last is used; the
 // screen names it.
+//
+// The card has the Logbook's time control (its rule is lbEntryTime's, the
+// same refusals): blank, a reading is saved timed when it was typed here
+// and a change of cylinder when it was made; a clock time times the next
+// entry saved from here instead, and the field goes back to blank once it
+// is saved. A cylinder change the logbook did not take (a refused time,
+// the logbook busy, a full disk) stays offered with a button until saved:
+// picking the same cylinder again cannot repeat it.
 
 // SupplyLogMark records where a reading was saved in the Logbook: the
 // transport and the record number. It holds no value of the reading.
@@ -39,7 +49,23 @@ type supplyLink struct {
 	busy      string             // what is being saved; "" when idle
 	status    string             // the last saved entry (role=status)
 	problem   string             // the last refusal (role=alert)
+
+	atText string // the time control: blank = the entry's own time; else hh:mm
+	atMsg  string // why the typed time was refused ("" = not refused)
+
+	change supplyChange // a cylinder change not yet in the logbook
 }
+
+// supplyChange is a change of the cylinder in use that the logbook has not
+// taken yet (zero: none).
+type supplyChange struct {
+	transport logbook.TransportID // the open transport when it was made
+	cylinder  int                 // index in the Supply list
+	at        time.Time           // when it was made (the device clock)
+}
+
+// supplyAtField names the card's time control in its refusals.
+const supplyAtField = "Time for the logbook"
 
 // sameShown reports whether l and m draw the same (the refresh count
 // aside).
@@ -168,17 +194,32 @@ func (s *supply) logReading(ctx app.Context) {
 		s.link.problem = "Not saved to the logbook: " + err.Error() + "."
 		return
 	}
-	e.Transport, e.At = t.ID, r.At()
+	at, given, err := s.logTime(t)
+	if err != nil {
+		s.link.atMsg = err.Error()
+		s.link.problem = err.Error() + " Nothing was saved to the logbook; the reading is kept on this tablet."
+		return
+	}
+	if !given {
+		at = r.At()
+	}
+	e.Transport, e.At = t.ID, at
 	what := "reading of " + label
 	if c := r.Corrects; c != nil {
 		// The reading saved a moment ago was corrected on this screen: the
-		// logbook keeps both, the new one pointing at the old.
-		e = &logbook.Entry{Kind: logbook.KindAmend, Transport: logbook.TransportID(c.Transport), At: r.At(),
+		// logbook keeps both, the new one pointing at the old. Untimed, the
+		// correction keeps the time of the record it corrects (as the
+		// Logbook's corrections do), so a reading saved late stays where
+		// it was put.
+		if !given {
+			at = supplyRecordAt(t, c.Seq, r.At())
+		}
+		e = &logbook.Entry{Kind: logbook.KindAmend, Transport: logbook.TransportID(c.Transport), At: at,
 			Amends: c.Seq, Reason: "gauge reading corrected on the Supply screen", Gauge: e.Gauge}
 		what = "correction of " + logbook.RecordName(c.Seq)
 	}
 	key := r.AtUnixMilli
-	s.appendEntry(ctx, what, e, func(ctx app.Context, ie logbook.IndexEntry) {
+	s.appendEntry(ctx, what, e, given, func(ctx app.Context, ie logbook.IndexEntry) {
 		for i := range s.session.Readings {
 			if s.session.Readings[i].AtUnixMilli == key {
 				s.session.Readings[i].Log = &SupplyLogMark{Transport: string(e.Transport), Seq: ie.Seq}
@@ -194,36 +235,96 @@ func (s *supply) logCylinderChange(ctx app.Context, i int) {
 	if t == nil {
 		return
 	}
-	if s.link.busy != "" {
-		s.link.problem = "The cylinder change was not saved to the logbook: it was busy (" + s.link.busy + ")."
+	s.link.change = supplyChange{transport: t.ID, cylinder: i, at: s.now()}
+	s.saveChange(ctx)
+}
+
+// saveChange saves the cylinder change not yet in the logbook, timed when
+// it was made or at the time control's; refused, it stays offered.
+func (s *supply) saveChange(ctx app.Context) {
+	c := s.link.change
+	t := s.link.open()
+	if c == (supplyChange{}) || t == nil || t.ID != c.transport {
 		return
 	}
-	label, problem := supplyCylinderLabel(t, s.session.Cylinders, i)
+	if s.link.busy != "" {
+		s.link.problem = "The cylinder change was not saved to the logbook: it was busy (" + s.link.busy + "). Save it again with the button in a moment."
+		return
+	}
+	label, problem := supplyCylinderLabel(t, s.session.Cylinders, c.cylinder)
 	if problem != "" {
+		s.link.change = supplyChange{} // saving again would not change that
 		s.link.problem = "The cylinder change was not saved to the logbook: " + problem
 		return
 	}
-	e := &logbook.Entry{Transport: t.ID, Kind: logbook.KindEvent, At: s.now(),
+	at, given, err := s.logTime(t)
+	if err != nil {
+		s.link.atMsg = err.Error()
+		s.link.problem = err.Error() + " The cylinder change was not saved to the logbook; save it with the button once the time is right."
+		return
+	}
+	if !given {
+		at = c.at
+	}
+	e := &logbook.Entry{Transport: t.ID, Kind: logbook.KindEvent, At: at,
 		Event: &logbook.Event{Type: logbook.EventCylinderChange, Cylinder: label}}
-	s.appendEntry(ctx, "change to cylinder "+label, e, nil)
+	s.appendEntry(ctx, "change to cylinder "+label, e, given, func(app.Context, logbook.IndexEntry) {
+		if s.link.change == c {
+			s.link.change = supplyChange{}
+		}
+	})
+}
+
+// logTime reads the card's time control for an entry of t saved now
+// (lbEntryTime: blank gives not given).
+func (s *supply) logTime(t *logbook.Transport) (time.Time, bool, error) {
+	return lbEntryTime(supplyAtField, s.link.atText, s.now(), t.Opened)
+}
+
+// supplyRecordAt is the time record seq of t carries, or else.
+func supplyRecordAt(t *logbook.Transport, seq uint64, otherwise time.Time) time.Time {
+	for _, e := range t.History {
+		if e.Seq == seq {
+			return e.At
+		}
+	}
+	return otherwise
 }
 
 // appendEntry appends e in a goroutine (the store blocks) and reports the
-// outcome on screen only once the vault answered.
-func (s *supply) appendEntry(ctx app.Context, what string, e *logbook.Entry, onSaved func(app.Context, logbook.IndexEntry)) {
-	s.link.busy, s.link.status, s.link.problem = "saving the "+what, "", ""
+// outcome on screen only once the vault answered. given: e carries the
+// time typed in the time control, which goes back to blank once saved.
+// The transport is read first as the vault holds it: one closed since
+// this screen read it takes no new entry (lbCloseCheckStored).
+func (s *supply) appendEntry(ctx app.Context, what string, e *logbook.Entry, given bool, onSaved func(app.Context, logbook.IndexEntry)) {
+	s.link.busy, s.link.status, s.link.problem, s.link.atMsg = "saving the "+what, "", "", ""
 	if s.mounted && s.Mounted() {
 		ctx = s.mctx
 	}
 	ctx.Async(func() {
-		ie, err := s.vault.Append(context.Background(), e)
+		c := context.Background()
+		var ie logbook.IndexEntry
+		err := lbCloseCheckStored(c, s.vault, supplyAtField, e, given)
+		if err == nil {
+			ie, err = s.vault.Append(c, e)
+		}
 		ctx.Dispatch(func(ctx app.Context) {
 			s.link.busy = ""
-			if err != nil {
+			var refused *lbRefusal
+			switch {
+			case errors.As(err, &refused):
+				s.link.problem = "Not saved to the logbook (" + what + "): " + refused.Error()
+				return
+			case err != nil:
 				s.link.problem = "Not saved to the logbook (" + what + "): " + vaultMessage(err)
 				return
 			}
 			s.link.status = "Saved to the logbook: " + what + ", record " + ie.Record() + ", at " + lbClock(ie.At) + "."
+			if given {
+				s.link.status = "Saved to the logbook: " + what + ", record " + ie.Record() + ", for " + lbClockMinute(ie.At) + " (a late entry, written at " + lbClock(e.Written) + ")."
+				s.link.atText = ""
+				lbClearInputs("supply-log-at")
+			}
 			if onSaved != nil {
 				onSaved(ctx, ie)
 			}
@@ -269,6 +370,16 @@ func (s *supply) renderLogbook() app.UI {
 			}
 			body = append(body, app.Button().ID("supply-log-save").Type("submit").Class("alv-button alv-primary").Text(label))
 		}
+		if c := l.change; c != (supplyChange{}) && c.transport == t.ID && l.busy == "" {
+			body = append(body, app.Button().ID("supply-log-change").Type("button").Class("alv-button").
+				Text(fmt.Sprintf("Save the change to cylinder %d (%s) to the logbook", c.cylinder+1, hhmm(c.at))).
+				OnClick(func(ctx app.Context, e app.Event) { s.saveChange(ctx) }))
+		}
+		body = append(body,
+			textField("supply-log-at", "Time for the logbook (hh:mm, 24-hour; blank = now)", l.atText, l.atMsg,
+				func(ctx app.Context, text string) { l.atText, l.atMsg = text, "" }),
+			app.P().ID("supply-log-at-note").Class("alv-note").Text("Leave blank to save to the logbook timed as typed here. For a late entry, type when it happened (within the last 24 hours, not before the transport opened): the next reading or cylinder change saved to the logbook takes that time, is marked there as entered late, and the field goes back to blank. The countdown on this screen still counts from when the reading was typed here, so for a reading taken earlier it shows more time than is left."),
+		)
 	}
 	body = append(body,
 		app.Div().ID("supply-log-status").Attr("role", "status").Class("alv-note").Text(l.status),
