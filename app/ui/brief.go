@@ -69,13 +69,15 @@ type briefState struct {
 	// The direct path (brief_result.go): the packed panel and the last
 	// one sent (buffers reused); caps the places the panel keeps for its
 	// lists; shownShape the shape of the panel on screen (empty: not
-	// known); direct reports that the last recompute is on screen in
-	// full already. writeTexts, when set, replaces the page script
-	// (tests).
+	// known), sentShown whether sent has that shape; direct reports that
+	// the last recompute is on screen in full already. writeTexts, when
+	// set, replaces the page script (tests).
 	panel      panelPack // packed, not yet sent
 	sent       panelPack // the last sent in full or in part
 	sentOK     bool      // sent is on screen, every record written
-	diff       []byte    // the records of panel that differ from sent
+	sentShown  bool
+	diff       []byte // the records of panel that differ from sent
+	scratch    []byte // a shape being compared
 	caps       panelCaps
 	shownShape []byte
 	direct     bool

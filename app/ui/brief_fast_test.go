@@ -372,7 +372,7 @@ func TestBriefPackMatchesRender(t *testing.T) {
 			t.Fatalf("%s: a text holds a separator", from.name)
 		}
 		check(from.name, s, parseHTML(t, raw), records(t, string(p.recs)))
-		shape := string(p.shape)
+		shape := string(p.appendShape(nil))
 		shapes[shape] = true
 		warnings := 0
 		if s.model.ok() {
@@ -384,7 +384,11 @@ func TestBriefPackMatchesRender(t *testing.T) {
 			}
 			set(s, to)
 			s.pack(&p)
-			if string(p.shape) != shape {
+			diff, same, ok := p.changedSince(&fromPack, nil)
+			if sameShape := string(p.appendShape(nil)) == shape; same != sameShape {
+				t.Fatalf("%s → %s: changedSince says same shape %v, the shapes say %v", from.name, to.name, same, sameShape)
+			}
+			if !same {
 				continue
 			}
 			pairs++
@@ -403,7 +407,6 @@ func TestBriefPackMatchesRender(t *testing.T) {
 			// Only the records that changed, written into the first
 			// plan's rendering, give the same.
 			diffTree := parseHTML(t, raw)
-			diff, ok := p.changedSince(&fromPack, nil)
 			if !ok {
 				t.Fatalf("%s → %s: a changed text holds a separator", from.name, to.name)
 			}
@@ -435,6 +438,39 @@ func TestBriefPackMatchesRender(t *testing.T) {
 		t.Errorf("only %d pairs of plans with the same shape were compared, %d of them with fewer warnings, %d with none", pairs, fewer, none)
 	}
 	t.Logf("%d cases, %d shapes, %d pairs of the same shape compared (%d with fewer warnings, %d with none)", len(cases), len(shapes), pairs, fewer, none)
+}
+
+// A pack's shape is each record's id, then its attribute name if it has
+// one, each followed by a space; changedSince sees a record whose text
+// moved within the same bytes as another shape.
+func TestPanelPackShape(t *testing.T) {
+	var p, q panelPack
+	p.text("5047", "b-r-cabin", "-v")
+	p.attr("hidden", "", "b-r-cabin")
+	p.text2(": ", "Cabin", "b-r-cabin", "-how-sr")
+	if got, want := string(p.appendShape(nil)), "b-r-cabin-v b-r-cabin hidden b-r-cabin-how-sr "; got != want {
+		t.Errorf("shape %q, want %q", got, want)
+	}
+	q.text("5100", "b-r-cabin", "-v")
+	q.attr("hidden", "hidden", "b-r-cabin")
+	q.text2(": ", "Cabin", "b-r-cabin", "-how-sr")
+	diff, same, ok := q.changedSince(&p, nil)
+	if !same || !ok || string(diff) != "b-r-cabin-v\x1f5100\x1eb-r-cabin\x1fhidden\x1fhidden" {
+		t.Errorf("same shape: changed %q, same %v, ok %v", diff, same, ok)
+	}
+	// The same bytes, "a␟b␟c": a text "b" with the attribute c, then a
+	// text "b␟c" holding a separator: not the same shape.
+	var r, u panelPack
+	r.attr("c", "b", "a")
+	u.text("b\x1fc", "a")
+	if _, same, _ := u.changedSince(&r, nil); same {
+		t.Error("a text holding a separator taken for an attribute of the same shape")
+	}
+	var v panelPack
+	v.text("5047", "b-r-cabin", "-v")
+	if _, same, _ := v.changedSince(&p, nil); same {
+		t.Error("a pack with fewer records taken for the same shape")
+	}
 }
 
 // firstDiff shows the first differing line of two renderings.
@@ -581,8 +617,8 @@ func TestPanelPackRefusesSeparatorInText(t *testing.T) {
 	after.text("13", "b-a")
 	after.text("ok", "b-b")
 	after.attr("hidden", "", "b-c")
-	if diff, ok := after.changedSince(&before, nil); !ok || string(diff) != "b-a\x1f13" {
-		t.Fatalf("clean change: %q, %v", diff, ok)
+	if diff, same, ok := after.changedSince(&before, nil); !same || !ok || string(diff) != "b-a\x1f13" {
+		t.Fatalf("clean change: %q, same %v, ok %v", diff, same, ok)
 	}
 	if after.bad() {
 		t.Fatal("a clean pack is called bad")
@@ -592,7 +628,7 @@ func TestPanelPackRefusesSeparatorInText(t *testing.T) {
 		bad.text("13", "b-a")
 		bad.text("o"+sep+"k", "b-b")
 		bad.attr("hidden", "", "b-c")
-		if _, ok := bad.changedSince(&before, nil); ok {
+		if _, same, ok := bad.changedSince(&before, nil); same && ok {
 			t.Errorf("%q: a changed text with a separator would be sent", sep)
 		}
 		if !bad.bad() {

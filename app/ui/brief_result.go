@@ -810,11 +810,12 @@ const (
 // panelPack is the result panel written out: one record per text or
 // attribute the plan decides, "id␟text" (the text of the element's only
 // child, a text node) or "id␟value␟attribute" (an empty value: no such
-// attribute); and the panel's shape, the ids and attribute names of those
-// records in order. Its buffers are reused from one keystroke to the next.
+// attribute). The panel's shape is the ids and attribute names of those
+// records in order (appendShape); two packs of the same shape differ only
+// in texts and values. Its buffers are reused from one keystroke to the
+// next.
 type panelPack struct {
 	recs  []byte
-	shape []byte
 	offs  []int     // where each record starts in recs
 	texts []span    // where each record's text or value is in recs
 	figs  []partFig // the figures being written out (a buffer)
@@ -824,7 +825,7 @@ type panelPack struct {
 type span struct{ from, to int }
 
 func (p *panelPack) reset() {
-	p.recs, p.shape, p.offs, p.texts = p.recs[:0], p.shape[:0], p.offs[:0], p.texts[:0]
+	p.recs, p.offs, p.texts = p.recs[:0], p.offs[:0], p.texts[:0]
 }
 
 // A text that holds a separator cannot be sent: the page would cut it in
@@ -864,9 +865,7 @@ func (p *panelPack) put(name, a, b string, id []string) {
 	p.offs = append(p.offs, len(p.recs))
 	for _, part := range id {
 		p.recs = append(p.recs, part...)
-		p.shape = append(p.shape, part...)
 	}
-	p.shape = append(p.shape, ' ')
 	p.recs = append(p.recs, packField)
 	start := len(p.recs)
 	p.recs = append(p.recs, a...)
@@ -875,38 +874,72 @@ func (p *panelPack) put(name, a, b string, id []string) {
 	if name != "" {
 		p.recs = append(p.recs, packField)
 		p.recs = append(p.recs, name...)
-		p.shape = append(p.shape, name...)
-		p.shape = append(p.shape, ' ')
 	}
+}
+
+// recEnd is where record i ends in recs (before the separator that
+// follows it).
+func (p *panelPack) recEnd(i int) int {
+	if i+1 < len(p.offs) {
+		return p.offs[i+1] - 1
+	}
+	return len(p.recs)
+}
+
+// appendShape appends p's shape to dst: each record's id, then its
+// attribute name when it has one, each followed by a space.
+func (p *panelPack) appendShape(dst []byte) []byte {
+	for i, from := range p.offs {
+		dst = append(dst, p.recs[from:p.texts[i].from-1]...)
+		dst = append(dst, ' ')
+		if name := p.recs[p.texts[i].to:p.recEnd(i)]; len(name) > 0 {
+			dst = append(dst, name[1:]...) // after its separator
+			dst = append(dst, ' ')
+		}
+	}
+	return dst
+}
+
+// sameKey reports whether record i of p and of q have the same id and
+// attribute name (and so the same place in the shape).
+func (p *panelPack) sameKey(q *panelPack, i int) bool {
+	return bytes.Equal(p.recs[p.offs[i]:p.texts[i].from], q.recs[q.offs[i]:q.texts[i].from]) &&
+		bytes.Equal(p.recs[p.texts[i].to:p.recEnd(i)], q.recs[q.texts[i].to:q.recEnd(i)])
 }
 
 // record returns the i-th record.
-func (p *panelPack) record(i int) []byte {
-	end := len(p.recs)
-	if i+1 < len(p.offs) {
-		end = p.offs[i+1] - 1 // the separator before the next
-	}
-	return p.recs[p.offs[i]:end]
-}
+func (p *panelPack) record(i int) []byte { return p.recs[p.offs[i]:p.recEnd(i)] }
 
-// changedSince writes into out the records of p that differ from those of
-// prev, a pack of the same shape, and returns them.
-func (p *panelPack) changedSince(prev *panelPack, out []byte) (changed []byte, ok bool) {
+// changedSince compares p with prev, the pack last sent. When both have
+// the same shape (same), it writes into out the records of p that differ
+// from prev's and returns them; ok is false when one of those holds a
+// separator. The shape is compared on the way: a record that is the same
+// bytes with its text at the same place is the same key.
+func (p *panelPack) changedSince(prev *panelPack, out []byte) (changed []byte, same, ok bool) {
 	out = out[:0]
-	for i := range p.offs {
-		r := p.record(i)
-		if bytes.Equal(r, prev.record(i)) {
+	if len(p.offs) != len(prev.offs) {
+		return out, false, true
+	}
+	for i, from := range p.offs {
+		r, pr := p.record(i), prev.record(i)
+		if bytes.Equal(r, pr) {
+			if p.texts[i].from-from != prev.texts[i].from-prev.offs[i] || p.texts[i].to-from != prev.texts[i].to-prev.offs[i] {
+				return out, false, true // the same bytes cut elsewhere
+			}
 			continue
 		}
+		if !p.sameKey(prev, i) {
+			return out, false, true
+		}
 		if !p.textOK(i) {
-			return out, false
+			return out, true, false
 		}
 		if len(out) > 0 {
 			out = append(out, packRec)
 		}
 		out = append(out, r...)
 	}
-	return out, true
+	return out, true, true
 }
 
 // pack writes out every text and attribute of the result panel that the
@@ -1052,21 +1085,26 @@ func (s *briefState) showPlan() bool {
 	}
 	p := &s.panel
 	s.pack(p)
-	recs := p.recs
-	ok := true
-	if s.sentOK && bytes.Equal(p.shape, s.sent.shape) {
-		s.diff, ok = p.changedSince(&s.sent, s.diff)
-		recs = s.diff
+	recs, same, ok := p.recs, false, true
+	if s.sentOK {
+		s.diff, same, ok = p.changedSince(&s.sent, s.diff)
+	}
+	shown := false
+	if same {
+		recs, shown = s.diff, s.sentShown
 	} else {
 		ok = !p.bad()
+		s.scratch = p.appendShape(s.scratch[:0])
+		shown = len(s.shownShape) > 0 && bytes.Equal(s.scratch, s.shownShape)
 	}
 	if !ok {
 		s.sentOK = false
 		return false
 	}
 	s.sentOK = len(recs) == 0 || s.writePanel(recs)
+	s.sentShown = shown
 	s.panel, s.sent = s.sent, s.panel
-	return s.sentOK && bytes.Equal(s.sent.shape, s.shownShape)
+	return s.sentOK && shown
 }
 
 // afterRender runs once go-app has drawn the panel: it writes every text
@@ -1091,9 +1129,9 @@ func (s *briefState) afterRender(app.Context) {
 		}
 		return
 	}
-	s.sentOK = true
+	s.sentOK, s.sentShown = true, true
 	s.panel, s.sent = s.sent, s.panel
-	s.shownShape = append(s.shownShape, s.sent.shape...)
+	s.shownShape = s.sent.appendShape(s.shownShape)
 }
 
 // queueAfterRender has afterRender run after the frame that draws the panel.
