@@ -102,3 +102,105 @@ func TestLogbookLateEntry(t *testing.T) {
 		t.Errorf("the opening shows %q, want %s:00", at, opened.Format("15:04"))
 	}
 }
+
+// A late gauge reading saved from the Supply screen (the Logbook's rule,
+// DEVELOPERS.md, on Supply's logbook card): the transport opened 12 minutes
+// back from a Brief with two E cylinders; on Supply the crew types a
+// reading, then a malformed time, which is refused with the Logbook's
+// sentence under the card's field name, nothing saved and the time kept;
+// then a clock time 5 minutes back, which saves the reading for that time
+// and empties the field. The Logbook's timeline shows the reading at the
+// time given, marked as entered late. Zone as in TestLogbookLateEntry
+// (Asia/Kathmandu, UTC+05:45 all year: the IANA time zone database).
+func TestSupplyLateEntry(t *testing.T) {
+	draft, patient, _ := altitudeDraftScenario() // two E cylinders at 2000 psi
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	if _, err := chromedp.Call(b.ctx, emulation.SetTimezoneOverride, emulation.SetTimezoneOverrideParams{TimezoneID: "Asia/Kathmandu"}); err != nil {
+		t.Fatalf("time zone override: %v", err)
+	}
+	zone := time.FixedZone("UTC+05:45", 5*3600+45*60)
+	b.openBlank(srv)
+	b.seedStorage(draftStorageKey, draft)
+	b.seedStorage(draftPatientStorageKey, patient)
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+
+	now := time.Now().In(zone)
+	opened := now.Add(-12 * time.Minute)
+	b.tap("#lb-nav-start")
+	b.waitLB("the start form", `document.querySelector("#lb-start") !== null`, 10*time.Second)
+	b.typeInto("#lb-vehicle", "Twin turboprop")
+	b.typeInto("#lb-crew", "ef gh")
+	b.typeInto("#lb-origin", "Harbour field")
+	b.typeInto("#lb-origin-elev", "20")
+	b.typeInto("#lb-dest", "Ridge clinic")
+	b.typeInto("#lb-dest-elev", "1900")
+	b.typeInto("#lb-start-at", opened.Format("15:04"))
+	b.tap("#lb-start-go")
+	b.waitLB("the transport timeline", `document.querySelector("#lb-timeline li[data-seq]") !== null`, 20*time.Second)
+
+	b.tap("#tab-supply")
+	b.waitFor("the open transport on Supply", `document.querySelector("#supply-log-open") !== null`, 20*time.Second)
+	b.toTop()
+	if note := b.text("#supply-log-at-note"); !strings.Contains(note, "late entry") {
+		t.Errorf("the card's time note is %q", note)
+	}
+	b.typeInto("#supply-gauge", "1700")
+	b.typeInto("#supply-flow", "4")
+	b.waitFor("the save button", `document.querySelector("#supply-log-save") !== null`, 10*time.Second)
+
+	// A malformed time: refused with the Logbook's sentence (app/ui/
+	// logbook_when.go) under this field's name; nothing saved.
+	b.typeInto("#supply-log-at", "7.5")
+	b.tap("#supply-log-save")
+	b.waitFor("the refusal", `(document.querySelector("#supply-log-problem")?.textContent ?? "").includes("Time for the logbook")`, 10*time.Second)
+	p := b.text("#supply-log-problem")
+	for _, want := range []string{"hh:mm", "00:00 to 23:59", "Nothing was saved to the logbook"} {
+		if !strings.Contains(p, want) {
+			t.Errorf("the refusal %q lacks %q", p, want)
+		}
+	}
+	if !b.exists("#supply-log-at-msg") {
+		t.Error("the refused time has no message beside its field")
+	}
+	time.Sleep(500 * time.Millisecond) // a save, had one started, would show by now
+	if b.exists("#supply-log-saved") || !b.exists("#supply-log-save") {
+		t.Error("a malformed time: the reading is shown saved, or its save button went")
+	}
+	if v := b.value("#supply-log-at"); v != "7.5" {
+		t.Errorf("the refused time is not kept in its field: %q", v)
+	}
+
+	lift := now.Add(-5 * time.Minute)
+	b.typeInto("#supply-log-at", lift.Format("15:04"))
+	b.tap("#supply-log-save")
+	b.waitFor("the reading saved", `document.querySelector("#supply-log-saved") !== null`, 20*time.Second)
+	if v := b.value("#supply-log-at"); v != "" {
+		t.Errorf("the time field holds %q after saving, want blank (now)", v)
+	}
+	if s := b.text("#supply-log-status"); !strings.Contains(s, "for "+lift.Format("15:04")) || !strings.Contains(s, "late entry") {
+		t.Errorf("status %q does not name the time given (%s)", s, lift.Format("15:04"))
+	}
+	if b.exists("#supply-log-problem") {
+		t.Errorf("saved, and the card still says %q", b.text("#supply-log-problem"))
+	}
+
+	b.tap("#tab-logbook")
+	b.waitLB("the list", `document.querySelector(".lb-open-row") !== null`, 30*time.Second)
+	b.toTop()
+	b.tap(".lb-open-row")
+	b.waitSeqs(2)
+	line := b.text(`#lb-timeline li[data-seq="2"]`)
+	if !strings.Contains(line, "Gauge E1: 1700 psi") {
+		t.Fatalf("R2 is not the reading: %s", b.timelineText())
+	}
+	if at := b.text(`#lb-timeline li[data-seq="2"] .lb-time`); at != lift.Format("15:04")+":00" {
+		t.Errorf("the reading shows %q, want %s:00", at, lift.Format("15:04"))
+	}
+	mark := b.text(`#lb-timeline li[data-seq="2"] .lb-flag-late`)
+	// Written is the moment of the tap: this minute or the next.
+	if a, c := "entered "+now.Format("15:04"), "entered "+now.Add(time.Minute).Format("15:04"); mark != a && mark != c {
+		t.Errorf("the reading's mark is %q, want %q", mark, a)
+	}
+}
