@@ -166,19 +166,34 @@ func (b *browser) savedEntry(what, submit string, seq int, field string) {
 
 // A full disk in real Chromium (the origin's quota set just above its
 // usage through the DevTools protocol): each write a crew makes during a
-// transport (a note, a gauge reading, an event, closing it, starting the
-// next) is refused with the full-disk sentence, is not shown as saved, and
-// keeps what was typed on screen. With space back, the same tap saves it,
-// once. After a reload the records saved before the disk filled are all
-// there, the chain verifies, and nothing half-written is found.
+// transport (a note, a gauge reading, observations, an event, a gauge
+// reading saved from the Supply screen, closing it, starting the next) is
+// refused with the full-disk sentence, is not shown as saved, and keeps
+// what was typed on screen. With space back, the same tap saves it, once.
+// After a reload the records saved before the disk filled are all there,
+// the chain verifies, and nothing half-written is found. The Brief's draft
+// gives the transport two E cylinders (E1, E2), so that Supply's reading
+// has a cylinder of the transport to go to.
 func TestLogbookFullDisk(t *testing.T) {
+	draft, patient, _ := altitudeDraftScenario() // two E cylinders at 2000 psi
 	srv := startApp(t, repoRoot)
 	dir := t.TempDir()
 	b := newBrowser(t, dir)
+	b.openBlank(srv)
+	b.seedStorage(draftStorageKey, draft)
+	b.seedStorage(draftPatientStorageKey, patient)
 	b.openLogbook(srv.URL("/logbook"))
 	b.createVault(testPass)
 	b.startTransport("King Air B200", "Ridge post", "Harbour ward")
-	b.liftOffAndReading()
+	// Lift-off (R2) and a reading of 1800 on the first cylinder (R3).
+	b.tap("#lb-ev-lift-off")
+	b.waitSeqs(2)
+	if got := b.value("#lb-gauge-cyl"); got != "E1" {
+		t.Fatalf("the gauge form's cylinder is %q, want E1 (the Brief's first cylinder)", got)
+	}
+	b.typeInto("#lb-gauge-p", "1800")
+	b.tap("#lb-gauge-go")
+	b.waitSeqs(3)
 	b.typeInto("#lb-note-text", "written before the disk filled")
 	b.tap("#lb-note-go")
 	b.waitSeqs(4)
@@ -189,6 +204,7 @@ func TestLogbookFullDisk(t *testing.T) {
 
 	marker := fmt.Sprintf("FD%06d", time.Now().UnixNano()%1e6)
 	note, other, outcome := "note "+marker+"N", "event "+marker+"E", "outcome "+marker+"C"
+	device := "mask " + marker + "O"
 	b.fill("#lb-note-text", note)
 	b.press("#lb-note-go")
 	b.refusedEntry("note", 4, "#lb-note-text", note)
@@ -196,9 +212,16 @@ func TestLogbookFullDisk(t *testing.T) {
 	b.fill("#lb-gauge-p", "1500")
 	b.press("#lb-gauge-go")
 	b.refusedEntry("gauge reading", 4, "#lb-gauge-p", "1500")
-	if got := b.value("#lb-gauge-cyl"); got != "A" {
-		t.Errorf("gauge reading on a full disk: the cylinder field holds %q, want A", got)
+	if got := b.value("#lb-gauge-cyl"); got != "E1" {
+		t.Errorf("gauge reading on a full disk: the cylinder field holds %q, want E1", got)
 	}
+
+	obs := map[string]string{"#lb-obs-spo2": "94", "#lb-obs-device": device, "#lb-obs-hr": "88"}
+	for _, field := range []string{"#lb-obs-spo2", "#lb-obs-device", "#lb-obs-hr"} {
+		b.fill(field, obs[field])
+	}
+	b.press("#lb-obs-go")
+	b.refusedEntry("observations", 4, "#lb-obs-device", device)
 
 	b.fill("#lb-other-text", other)
 	b.press("#lb-other-go")
@@ -217,25 +240,86 @@ func TestLogbookFullDisk(t *testing.T) {
 		t.Error("close on a full disk: the transport is shown closed")
 	}
 	// Every refused entry is still in its form, all at once.
-	for field, want := range map[string]string{"#lb-note-text": note, "#lb-gauge-p": "1500", "#lb-other-text": other, "#lb-outcome": outcome} {
-		if got := b.value(field); got != want {
-			t.Errorf("after the refusals, %s holds %q, want %q", field, got, want)
+	typed := map[string]string{"#lb-note-text": note, "#lb-gauge-p": "1500", "#lb-other-text": other, "#lb-outcome": outcome,
+		"#lb-obs-spo2": "94", "#lb-obs-device": device, "#lb-obs-hr": "88"}
+	checkTyped := func(when string) {
+		t.Helper()
+		for field, want := range typed {
+			if got := b.value(field); got != want {
+				t.Errorf("%s, %s holds %q, want %q", when, field, got, want)
+			}
 		}
 	}
+	checkTyped("after the refusals")
 	if !b.exists("#lb-lock") {
 		t.Error("after the refusals the logbook is no longer unlocked")
+	}
+
+	// Supply's "save to the logbook" on the full disk: refused with the
+	// same sentence (app/ui/supply_logbook.go puts the entry's name before
+	// it), not shown saved, the reading kept on Supply with its button.
+	b.tap("#tab-supply")
+	b.waitFor("the open transport on Supply", `document.querySelector("#supply-log-open") !== null`, 20*time.Second)
+	b.toTop()
+	b.typeInto("#supply-gauge", "1650")
+	b.typeInto("#supply-flow", "4")
+	b.waitFor("the save button", `document.querySelector("#supply-log-save") !== null`, 10*time.Second)
+	b.press("#supply-log-save")
+	b.waitFor("the refusal on Supply", `!document.querySelector("#supply-log-busy") && document.querySelector("#supply-log-problem") !== null`, 20*time.Second)
+	if got, want := b.text("#supply-log-problem"), "Not saved to the logbook (reading of E1): "+quotaMessage; got != want {
+		t.Errorf("Supply's reading on a full disk: the card says %q, want %q", got, want)
+	}
+	if b.exists("#supply-log-saved") || !b.exists("#supply-log-save") || strings.Contains(b.text("#supply-log-status"), "Saved") {
+		t.Errorf("Supply's reading on a full disk: shown saved (%q), or its save button went", b.text("#supply-log-status"))
+	}
+	for field, want := range map[string]string{"#supply-gauge": "1650", "#supply-flow": "4"} {
+		if got := b.value(field); got != want {
+			t.Errorf("Supply's reading on a full disk: %s holds %q, want %q", field, got, want)
+		}
 	}
 	if got, want := b.storedSeqs(), "index [1 2 3 4] body [1 2 3 4]"; got != want {
 		t.Errorf("after the refusals the database holds %s, want %s", got, want)
 	}
 
+	// Back on the Logbook, the transport's refused entries are in their
+	// forms again.
+	b.tap("#tab-logbook")
+	b.waitLB("the list", `document.querySelector(".lb-open-row") !== null`, 30*time.Second)
+	b.toTop()
+	b.tap(".lb-open-row")
+	b.waitSeqs(4)
+	checkTyped("back from Supply")
+
 	// Space again: the same taps save each entry, once.
 	b.freeDisk(srv.Origin())
 	b.savedEntry("note", "#lb-note-go", 5, "#lb-note-text")
 	b.savedEntry("gauge reading", "#lb-gauge-go", 6, "#lb-gauge-p")
-	b.savedEntry("event", "#lb-other-go", 7, "#lb-other-text")
-	b.savedEntry("landing", "#lb-ev-landing", 8, "")
-	b.savedEntry("close", "#lb-close-go", 9, "")
+	b.savedEntry("observations", "#lb-obs-go", 7, "#lb-obs-spo2")
+	b.savedEntry("event", "#lb-other-go", 8, "#lb-other-text")
+	b.savedEntry("landing", "#lb-ev-landing", 9, "")
+
+	b.tap("#tab-supply")
+	b.waitFor("the reading's save button on Supply", `document.querySelector("#supply-log-save") !== null`, 20*time.Second)
+	if got := b.value("#supply-gauge"); got != "1650" {
+		t.Errorf("back on Supply the gauge holds %q, want the unsaved 1650", got)
+	}
+	b.press("#supply-log-save")
+	b.waitFor("Supply's reading saved", `document.querySelector("#supply-log-saved") !== null`, 20*time.Second)
+	if got := b.text("#supply-log-status"); !strings.HasPrefix(got, "Saved to the logbook: reading of E1, record R10,") {
+		t.Errorf("Supply's reading with space again: status %q, want it saved as R10", got)
+	}
+	if b.exists("#supply-log-problem") {
+		t.Errorf("Supply's reading saved, and the card still says %q", b.text("#supply-log-problem"))
+	}
+	b.tap("#tab-logbook")
+	b.waitLB("the list", `document.querySelector(".lb-open-row") !== null`, 30*time.Second)
+	b.toTop()
+	b.tap(".lb-open-row")
+	b.waitSeqs(10)
+	if got := b.value("#lb-outcome"); got != outcome {
+		t.Errorf("back from Supply the outcome holds %q, want %q", got, outcome)
+	}
+	b.savedEntry("close", "#lb-close-go", 11, "")
 
 	// The next transport, on a device already full when the app starts: a
 	// new browser on the same profile (its IndexedDB learns the space left
@@ -271,16 +355,16 @@ func TestLogbookFullDisk(t *testing.T) {
 			t.Errorf("start of transport on a full disk: %s holds %q, want %q", field, got, want)
 		}
 	}
-	if got, want := b.storedSeqs(), "index [1 2 3 4 5 6 7 8 9] body [1 2 3 4 5 6 7 8 9]"; got != want {
+	if got, want := b.storedSeqs(), "index [1 2 3 4 5 6 7 8 9 10 11] body [1 2 3 4 5 6 7 8 9 10 11]"; got != want {
 		t.Errorf("after the refused start the database holds %s, want %s", got, want)
 	}
 	b.freeDisk(srv.Origin())
 	b.press("#lb-start-go")
-	b.waitLB("the transport started", `!document.querySelector(".lb-busy") && (document.querySelector("#lb-status")?.textContent ?? "").startsWith("Saved start of transport as R10 ")`, 20*time.Second)
-	if got := b.savedSeqs(); len(got) != 1 || got[0] != 10 {
-		t.Errorf("the retried start: the timeline shows %v, want [10]", got)
+	b.waitLB("the transport started", `!document.querySelector(".lb-busy") && (document.querySelector("#lb-status")?.textContent ?? "").startsWith("Saved start of transport as R12 ")`, 20*time.Second)
+	if got := b.savedSeqs(); len(got) != 1 || got[0] != 12 {
+		t.Errorf("the retried start: the timeline shows %v, want [12]", got)
 	}
-	if got, want := b.storedSeqs(), "index [1 2 3 4 5 6 7 8 9 10] body [1 2 3 4 5 6 7 8 9 10]"; got != want {
+	if got, want := b.storedSeqs(), "index [1 2 3 4 5 6 7 8 9 10 11 12] body [1 2 3 4 5 6 7 8 9 10 11 12]"; got != want {
 		t.Errorf("after the retries the database holds %s, want %s", got, want)
 	}
 
@@ -297,17 +381,21 @@ func TestLogbookFullDisk(t *testing.T) {
 		t.Errorf("list after the full disk: %q, want two transports, the retried one once", rows)
 	}
 	b.tap("#lb-list tbody tr:last-child button")
-	b.waitSeqs(9)
-	if got := b.savedSeqs(); fmt.Sprint(got) != "[1 2 3 4 5 6 7 8 9]" {
-		t.Errorf("first transport after reload: records %v, want R1…R9", got)
+	b.waitSeqs(11)
+	// In time order: Supply's reading (R10) carries the time it was typed
+	// there, while the disk was full, so it stands before the retries.
+	if got := b.savedSeqs(); fmt.Sprint(got) != "[1 2 3 4 10 5 6 7 8 9 11]" {
+		t.Errorf("first transport after reload: records %v, want R1…R11, R10 (typed on Supply before the retries) after R4", got)
 	}
 	tl := b.timelineText()
-	for _, want := range []string{"Opened: Ridge post → Harbour ward", "lift-off", "Gauge A: 1800 psi", "Note: written before the disk filled"} {
+	for _, want := range []string{"Opened: Ridge post → Harbour ward", "lift-off", "Gauge E1: 1800 psi", "Note: written before the disk filled"} {
 		if strings.Count(tl, want) != 1 {
 			t.Errorf("a record saved before the disk filled is not there once: %q\n%s", want, tl)
 		}
 	}
-	for _, want := range []string{"Note: " + note, "Gauge A: 1500 psi", "Event: other — " + other, "Event: landing", "Closed: " + outcome} {
+	// The timeline's wording: lbPayloadText (app/ui/logbook_record.go).
+	for _, want := range []string{"Note: " + note, "Gauge E1: 1500 psi", "Observations: SpO2 94 %, " + device + ", HR 88/min",
+		"Event: other — " + other, "Event: landing", "Gauge E1: 1650 psi", "Closed: " + outcome} {
 		if n := strings.Count(tl, want); n != 1 {
 			t.Errorf("the retried %q is there %d times, want once:\n%s", want, n, tl)
 		}
