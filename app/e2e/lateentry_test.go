@@ -204,3 +204,56 @@ func TestSupplyLateEntry(t *testing.T) {
 		t.Errorf("the reading's mark is %q, want %q", mark, a)
 	}
 }
+
+// A close timed before an entry already in the transport is refused in the
+// browser (a close is the last entry: app/ui/logbook_when.go,
+// lbCloseRefusal): opened 12 minutes back, a landing tapped now, then a
+// close typed for 5 minutes back. The sentence names the field, the
+// landing's record as the lower bound and the hh:mm format; the outcome and
+// the time stay typed; nothing is saved. Blank (now), the close goes in.
+func TestLogbookLateCloseBeforeLatest(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+	now := time.Now()
+	b.tap("#lb-nav-start")
+	b.waitLB("the start form", `document.querySelector("#lb-start") !== null`, 10*time.Second)
+	b.typeInto("#lb-vehicle", "Road ambulance")
+	b.typeInto("#lb-crew", "ij")
+	b.typeInto("#lb-origin", "Lake post")
+	b.typeInto("#lb-origin-elev", "300")
+	b.typeInto("#lb-dest", "County ward")
+	b.typeInto("#lb-dest-elev", "90")
+	b.typeInto("#lb-start-at", now.Add(-12*time.Minute).Format("15:04"))
+	b.tap("#lb-start-go")
+	b.waitLB("the transport timeline", `document.querySelector("#lb-timeline li[data-seq]") !== null`, 20*time.Second)
+	b.tap("#lb-ev-landing")
+	b.waitSeqs(2)
+
+	closeAt := now.Add(-5 * time.Minute).Format("15:04")
+	b.typeInto("#lb-at", closeAt)
+	b.fill("#lb-outcome", "handed over")
+	b.press("#lb-close-go")
+	b.waitLB("the refusal", `(document.querySelector("#lb-problem")?.textContent ?? "").includes("Time of the entry")`, 10*time.Second)
+	p := b.text("#lb-problem")
+	for _, want := range []string{"close at " + closeAt, "R2, the latest entry", "hh:mm", "Nothing was saved"} {
+		if !strings.Contains(p, want) {
+			t.Errorf("the refusal %q lacks %q", p, want)
+		}
+	}
+	time.Sleep(500 * time.Millisecond) // a save, had one started, would show by now
+	if got := b.savedSeqs(); fmt.Sprint(got) != "[1 2]" || !b.exists("#lb-close") || !b.exists("#lb-at-msg") {
+		t.Errorf("a close before the landing: records %v, close form shown %v, time message shown %v", got, b.exists("#lb-close"), b.exists("#lb-at-msg"))
+	}
+	if at, out := b.value("#lb-at"), b.value("#lb-outcome"); at != closeAt || out != "handed over" {
+		t.Errorf("after the refusal the time holds %q, the outcome %q; want both kept", at, out)
+	}
+
+	b.fill("#lb-at", "")
+	b.press("#lb-close-go")
+	b.waitLB("the close saved", `!document.querySelector(".lb-busy") && (document.querySelector("#lb-status")?.textContent ?? "").startsWith("Saved close as R3 ")`, 20*time.Second)
+	if b.exists("#lb-close") {
+		t.Error("the transport closed now still offers the close form")
+	}
+}
