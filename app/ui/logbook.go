@@ -162,8 +162,15 @@ func (l *logbookScreen) restoreHeld() {
 
 // stashUnsaved keeps the record view's unsaved typing in the session as
 // the crew leaves it (another view, another transport, another screen, a
-// lock); takeUnsaved puts it back when that transport opens again.
+// lock); takeUnsaved puts it back when that transport opens again. A start
+// of transport being typed is kept the same way, and prepareStart puts it
+// back over the Brief as it is then.
 func (l *logbookScreen) stashUnsaved() {
+	if l.view == viewStart && l.start.typed() {
+		l.session.keepStart(l.start)
+		l.start = startForm{}
+		return
+	}
 	if l.view != viewRecord || l.record.id == "" || !l.record.typed() {
 		return
 	}

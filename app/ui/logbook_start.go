@@ -31,22 +31,53 @@ type startForm struct {
 	// starts the log after taking the patient on gives the real time
 	// (lbEntryTime; the same rule as the record view's time control).
 	at, atMsg string
+	// The elevations as the Brief gave them, to tell them from the crew's.
+	briefOriginElev, briefDestElev string
 }
 
-// typed reports whether the crew has filled in any field of the form.
+// typed reports whether the crew has filled in any field of the form (an
+// elevation as the Brief gave it is not the crew's).
 func (f startForm) typed() bool {
-	return f.vehicle != "" || f.crew != "" || f.origin != "" || f.originElev != "" || f.dest != "" ||
-		f.destElev != "" || f.age != "" || f.sex != "" || f.weight != "" || f.identifying != "" || f.at != ""
+	return f.vehicle != "" || f.crew != "" || f.origin != "" || f.originElev != f.briefOriginElev || f.dest != "" ||
+		f.destElev != f.briefDestElev || f.age != "" || f.sex != "" || f.weight != "" || f.identifying != "" || f.at != ""
 }
 
-// prepareStart reads the current Brief draft and computes its plan.
+// prepareStart reads the current Brief draft and computes its plan; what
+// the crew had typed into the form before leaving it (stashUnsaved) is put
+// back over it.
 func (l *logbookScreen) prepareStart(ctx app.Context) {
+	l.start = l.startFromBrief(ctx)
+	l.start.briefOriginElev, l.start.briefDestElev = l.start.originElev, l.start.destElev
+	if kept, ok := l.session.takeStart(); ok {
+		l.start = kept.over(l.start)
+		l.status = "What you had typed for this transport is back in its fields; the plan kept with it is the Brief as it is now."
+	}
+}
+
+// over returns fresh (the form as the Brief gives it now) with the fields
+// the crew typed into f. An elevation the crew did not change from the
+// Brief's follows the Brief; one they changed stays theirs. The messages
+// are dropped: they are given again when the form is sent.
+func (f startForm) over(fresh startForm) startForm {
+	g := fresh
+	g.vehicle, g.crew, g.origin, g.dest = f.vehicle, f.crew, f.origin, f.dest
+	g.age, g.sex, g.weight, g.identifying, g.at = f.age, f.sex, f.weight, f.identifying, f.at
+	if f.originElev != f.briefOriginElev {
+		g.originElev = f.originElev
+	}
+	if f.destElev != f.briefDestElev {
+		g.destElev = f.destElev
+	}
+	return g
+}
+
+// startFromBrief is the start form as the current Brief draft gives it.
+func (l *logbookScreen) startFromBrief(ctx app.Context) startForm {
 	f := startForm{}
 	d, found, err := draftStoreFor(l.session).Load(ctx)
 	if err != nil || !found {
 		f.briefNote = "No Brief has been filled in: the transport starts without a plan snapshot."
-		l.start = f
-		return
+		return f
 	}
 	m := buildBrief(d, l.units)
 	if m.doc != nil {
@@ -61,19 +92,17 @@ func (l *logbookScreen) prepareStart(ctx app.Context) {
 	}
 	if !m.ok() {
 		f.briefNote = "The Brief is not complete (" + strconv.Itoa(len(m.order)+len(m.other)) + " item(s) to fix): the transport starts without a plan snapshot. Fix the Brief first to keep one."
-		l.start = f
-		return
+		return f
 	}
 	plan, err1 := json.Marshal(m.doc)
 	result, err2 := json.Marshal(m.result)
 	if err1 != nil || err2 != nil {
 		f.briefNote = "The Brief could not be recorded: the transport starts without a plan snapshot."
-		l.start = f
-		return
+		return f
 	}
 	f.snapshot = &logbook.Brief{Plan: plan, Result: result, EngineVersion: physio.EngineVersion}
 	f.briefNote = "The current Brief (plan and result, engine " + physio.EngineVersion + ") is kept with the transport."
-	l.start = f
+	return f
 }
 
 // lbCylindersFromPlan lists the Brief's cylinders, one per cylinder on board,

@@ -576,3 +576,63 @@ func TestLogbookUnsavedEntryFollowsItsTransport(t *testing.T) {
 		t.Errorf("after the save: note %q (want none), SpO2 %q (still unsaved, want kept)", l2.record.noteText, l2.record.obs.spo2)
 	}
 }
+
+// A start of transport being typed survives the crew going to another
+// view or screen (to check the Brief, say) and coming back: what they
+// typed is back in its fields, over the Brief as it is then (a changed
+// Brief gives the new snapshot and its elevations, unless the crew typed
+// their own). Nothing is said to be back when nothing was typed.
+func TestLogbookStartFormKeptAcrossViews(t *testing.T) {
+	s := testSession(logbook.NewMemStore())
+	l, e := mountLogbook(t, s)
+	createTestVault(l, e)
+	d := scenarioDraft()
+	if err := draftStoreFor(s).Save(l.mctx, d); err != nil {
+		t.Fatal(err)
+	}
+	l.show(l.mctx, viewStart)
+	l.prepareStart(l.mctx)
+	if l.start.typed() || l.status != "" {
+		t.Fatalf("a form only the Brief filled in counts as typed (status %q)", l.status)
+	}
+	l.show(l.mctx, viewList) // nothing typed: nothing kept
+	l.show(l.mctx, viewStart)
+	l.prepareStart(l.mctx)
+	if l.status != "" {
+		t.Errorf("nothing was typed, yet the status says %q", l.status)
+	}
+	l.start.vehicle, l.start.origin, l.start.weight, l.start.destElev = "Rotor wing", "Mesa clinic", "71", "3100 ft"
+	before := l.start.snapshot
+	l.show(l.mctx, viewList)
+	if l.start.typed() {
+		t.Error("the start form is still on screen after leaving it")
+	}
+	// The crew changes the Brief's origin elevation meanwhile.
+	d.Route.Origin = Entry{T: "800", U: "ft"}
+	if err := draftStoreFor(s).Save(l.mctx, d); err != nil {
+		t.Fatal(err)
+	}
+	l.show(l.mctx, viewStart)
+	l.prepareStart(l.mctx)
+	f := l.start
+	if f.vehicle != "Rotor wing" || f.origin != "Mesa clinic" || f.weight != "71" {
+		t.Errorf("typed fields not back: %+v", f)
+	}
+	if f.destElev != "3100 ft" {
+		t.Errorf("the destination elevation the crew typed became %q", f.destElev)
+	}
+	if f.originElev != "800 ft" {
+		t.Errorf("the origin elevation the crew left as the Brief gave it is %q, not the Brief's new 800 ft", f.originElev)
+	}
+	if f.snapshot == nil || before == nil || string(f.snapshot.Plan) == string(before.Plan) {
+		t.Error("the plan kept with the transport is not the Brief as it is now")
+	}
+	if !strings.Contains(l.status, "back in its fields") {
+		t.Errorf("status %q does not say the typing is back", l.status)
+	}
+	// Leaving the Logbook screen keeps it too.
+	l.OnDismount()
+	if _, ok := s.takeStart(); !ok {
+		t.Error("leaving the Logbook screen did not keep the start form")
+	}
+}

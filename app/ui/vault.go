@@ -70,6 +70,28 @@ type vaultSession struct {
 	// memory (never stored) while the crew is on another view or screen,
 	// or the logbook is locked, and put back when that transport opens.
 	unsaved map[logbook.TransportID]recordState
+	// The start of a transport being typed, kept the same way while the
+	// crew looks at the Brief or another view (nil: none).
+	unsavedStart *startForm
+}
+
+// keepStart holds a start form being typed until takeStart.
+func (s *vaultSession) keepStart(f startForm) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	s.unsavedStart = &f
+}
+
+// takeStart returns and forgets the start form held, if any.
+func (s *vaultSession) takeStart() (startForm, bool) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	f := s.unsavedStart
+	s.unsavedStart = nil
+	if f == nil {
+		return startForm{}, false
+	}
+	return *f, true
 }
 
 // keepUnsaved holds r's forms (r.id is the transport) until takeUnsaved.
