@@ -3,6 +3,7 @@ package ui
 import (
 	"fmt"
 	"reflect"
+	"sort"
 	"strconv"
 	"strings"
 	"time"
@@ -14,9 +15,13 @@ import (
 
 // Field and element ids of the Supply screen (used by its tests).
 const (
-	FieldSupplyGauge = "supply-gauge"
-	FieldSupplyFlow  = "supply-flow"
+	FieldSupplyGauge  = "supply-gauge"
+	FieldSupplyFlow   = "supply-flow"
+	FieldSupplyReadAt = "supply-read-at"
 )
+
+// supplyReadAtField names the reading's time in its refusals.
+const supplyReadAtField = "Read at"
 
 // supplyTick is how often the countdown is redrawn from the device clock.
 const supplyTick = 15 * time.Second
@@ -54,6 +59,13 @@ type supplyShown struct {
 
 	gaugeText, flowText string // the fields as typed
 	messages            FieldErrors
+
+	// readAtText is the Read at field: when the gauge was read, as hh:mm
+	// (blank: as it is typed). readAtFor is the reading it timed (its
+	// AtUnixMilli), or 0 while it waits for the next reading: a new
+	// reading does not take the time given for an older one.
+	readAtText string
+	readAtFor  int64
 }
 
 func newSupply() *supply {
@@ -74,8 +86,13 @@ func (s *supply) load(st Settings, session SupplySession) {
 		s.gaugeText = shownPressure(r.Gauge, r.GaugeUnit, st.PressureUnit)
 		s.flowText = r.Flow
 		s.session.InUse = r.Cylinder
+		s.readAtText, s.readAtFor = "", 0
+		if r.ReadGiven() {
+			s.readAtText, s.readAtFor = lbClockMinute(r.At()), r.AtUnixMilli
+		}
 	} else {
 		s.gaugeText, s.flowText = "", ""
+		s.readAtText, s.readAtFor = "", 0
 	}
 }
 
@@ -252,30 +269,39 @@ func (s *supply) residual() (physio.Pressure, time.Duration, string) {
 	return res, time.Duration(minutes.IntPart()) * time.Minute, ""
 }
 
-// edit handles typing into the gauge or flow field: a valid pair becomes
-// the current reading (at the device clock's time) and is kept at once.
+// edit handles typing into the gauge, flow or Read at field: valid fields
+// become the current reading and are kept at once. Typed within
+// readingMerge of the last reading (same cylinder), any of the three
+// corrects it; later, a gauge or flow starts a new reading, timed as it is
+// typed unless a time was given for it, and a Read at waits for the next
+// reading (it cannot move one typed a while ago).
 func (s *supply) edit(ctx app.Context, field, text string) {
 	switch field {
 	case FieldSupplyGauge:
 		s.gaugeText = text
 	case FieldSupplyFlow:
 		s.flowText = text
+	case FieldSupplyReadAt:
+		s.readAtText = text
 	}
 	s.link.status, s.link.problem = "", ""
-	s.commit(ctx)
+	s.commit(ctx, field == FieldSupplyReadAt)
 }
 
-func (s *supply) commit(ctx app.Context) {
+// commit keeps the fields as the current reading when they are all valid
+// and reports whether it did. timeEdit: the edit was to Read at, which
+// outside the correction window only waits for the next reading.
+func (s *supply) commit(ctx app.Context, timeEdit bool) bool {
 	s.messages = FieldErrors{}
 	unit := s.settings.PressureUnit
 	in := s.session.InUse
 	if in < 0 || in >= len(s.session.Cylinders) {
-		return
+		return false
 	}
 	cyl, err := s.session.Cylinders[in].physioCylinder()
 	if err != nil {
 		s.messages[FieldSupplyGauge] = "This cylinder is not in the catalogue."
-		return
+		return false
 	}
 	if _, msg := gaugeRule(cyl, unit).Check(s.gaugeText); msg != "" {
 		s.messages[FieldSupplyGauge] = msg
@@ -283,19 +309,74 @@ func (s *supply) commit(ctx app.Context) {
 	if _, msg := ruleFlow.Check(s.flowText); msg != "" {
 		s.messages[FieldSupplyFlow] = msg
 	}
-	if len(s.messages) > 0 {
-		return
-	}
 	now := s.now()
-	s.shown = now
-	s.session.record(SupplyReading{
+	r := SupplyReading{
 		AtUnixMilli: now.UnixMilli(),
 		Cylinder:    in,
 		Gauge:       strings.ReplaceAll(strings.TrimSpace(s.gaugeText), ",", "."),
 		GaugeUnit:   unit,
 		Flow:        strings.ReplaceAll(strings.TrimSpace(s.flowText), ",", "."),
-	})
+	}
+	merge := s.session.merges(in, now)
+	// A time alone, typed after the correction window while the fields
+	// show the last reading as it was kept, is for the next reading.
+	last, hasLast := s.session.lastReading()
+	waits := timeEdit && !merge && hasLast && last.Cylinder == in && last.Gauge == r.Gauge && last.GaugeUnit == r.GaugeUnit && last.Flow == r.Flow
+	switch {
+	case waits:
+		s.readAtFor = 0
+	case !merge && !timeEdit && s.readAtFor != 0:
+		// A new reading: the time given for an older one is not its time.
+		s.readAtText, s.readAtFor = "", 0
+	}
+	read, given, msg := s.readTime(now, in, merge)
+	if msg != "" {
+		s.messages[FieldSupplyReadAt] = msg
+	}
+	if len(s.messages) > 0 || waits {
+		return false
+	}
+	s.shown = now
+	if given {
+		r.ReadUnixMilli = read.UnixMilli()
+	}
+	s.session.record(r)
+	last, _ = s.session.lastReading()
+	s.readAtFor = last.AtUnixMilli
+	if c := &s.link.change; *c != (supplyChange{}) && c.at.IsZero() && c.cylinder == in {
+		// A change of cylinder waiting for its time takes its first reading's.
+		c.at, c.given = last.At(), last.ReadGiven()
+	}
 	saveSupplySession(ctx, s.session)
+	return true
+}
+
+// readTime resolves Read at for a reading of cylinder typed at now (merge:
+// it corrects the last reading) by the Logbook's rule (lbEntryTime: blank
+// is now; hh:mm the latest such moment at or before now, at most 24 h
+// back, not a clock time skipped by summer time; not before the open
+// transport's opening, when there is one), and not before the previous
+// reading of that cylinder: a reading dated before it would turn the
+// cylinder's course back. The message names the field, the range and the
+// format; "" when accepted.
+func (s *supply) readTime(now time.Time, cylinder int, merge bool) (time.Time, bool, string) {
+	var opened time.Time
+	if t := s.link.open(); t != nil {
+		opened = t.Opened
+	}
+	at, given, err := lbEntryTime(supplyReadAtField, s.readAtText, now, opened)
+	if err != nil {
+		return time.Time{}, false, err.Error()
+	}
+	if !given {
+		return now, false, ""
+	}
+	if prev, ok := s.session.previousOf(cylinder, merge); ok && at.Before(prev.At()) {
+		p := prev.At()
+		return time.Time{}, false, fmt.Sprintf("%s: %s (%s) is before the previous reading of cylinder %d (%s). Give a time from %s to now as hh:mm (24-hour), or leave it blank for now.",
+			supplyReadAtField, strings.TrimSpace(s.readAtText), lbDayMinute(at), cylinder+1, lbDayMinute(p)+":"+p.Local().Format("05"), lbClockMinute(p.Add(time.Minute-1)))
+	}
+	return at, true, ""
 }
 
 // pickInUse changes the cylinder in use; the gauge field then waits for its
@@ -308,9 +389,20 @@ func (s *supply) pickInUse(ctx app.Context, i int) {
 	c := s.session.Cylinders[i]
 	s.gaugeText = shownPressure(c.Gauge, c.GaugeUnit, s.settings.PressureUnit)
 	s.link.status, s.link.problem = "", ""
-	s.commit(ctx)
+	kept := s.commit(ctx, false)
 	saveSupplySession(ctx, s.session)
-	s.logCylinderChange(ctx, i)
+	// The change happened when the new cylinder was first read: its
+	// reading's time. Read at refused, the change waits for it; other
+	// fields refused, it is timed now, as a change always was.
+	at, given := s.now(), false
+	switch {
+	case kept:
+		r, _ := s.session.lastReading()
+		at, given = r.At(), r.ReadGiven()
+	case s.messages[FieldSupplyReadAt] != "":
+		at = time.Time{}
+	}
+	s.logCylinderChange(ctx, i, at, given)
 }
 
 // The own cylinder list (used while no Brief draft gives one).
@@ -386,6 +478,7 @@ func (s *supply) newTransport(ctx app.Context, e app.Event) {
 	s.session.Readings = nil
 	s.session.InUse = 0
 	s.gaugeText, s.flowText = "", ""
+	s.readAtText, s.readAtFor = "", 0
 	s.messages = FieldErrors{}
 	saveSupplySession(ctx, s.session)
 }
@@ -442,14 +535,39 @@ func (s *supply) renderReading() app.UI {
 				s.pickInUse(ctx, i)
 			}),
 		app.Div().Class("alv-form-row").Body(
-			numberField(FieldSupplyGauge, "Gauge now", unit, s.gaugeText, s.messages[FieldSupplyGauge],
+			numberField(FieldSupplyGauge, "Gauge", unit, s.gaugeText, s.messages[FieldSupplyGauge],
 				func(ctx app.Context, v string) { s.edit(ctx, FieldSupplyGauge, v) }),
-			numberField(FieldSupplyFlow, "Flow now", "L/min", s.flowText, s.messages[FieldSupplyFlow],
+			numberField(FieldSupplyFlow, "Flow", "L/min", s.flowText, s.messages[FieldSupplyFlow],
 				func(ctx app.Context, v string) { s.edit(ctx, FieldSupplyFlow, v) }),
+			textField(FieldSupplyReadAt, "Read at (hh:mm, 24-hour; blank = now)", s.readAtText, s.messages[FieldSupplyReadAt],
+				func(ctx app.Context, v string) { s.edit(ctx, FieldSupplyReadAt, v) }),
 		),
-		app.P().Class("alv-note").Text("Kept on this device as you type, with the time of the device clock."),
+		s.renderReadAtNext(),
+		app.P().ID("supply-read-at-note").Class("alv-note").Text(s.readAtNote()),
 		s.renderLogbook(),
 	)
+}
+
+// readAtNote says what Read at does, with the bounds it is held to.
+func (s *supply) readAtNote() string {
+	bounds := "within the last 24 hours, not before this cylinder's previous reading"
+	if s.link.open() != nil {
+		bounds += " nor before the open transport's opening"
+	}
+	return "Kept on this device as you type. Read at is when the gauge was read, if not just now (" + bounds +
+		"): the countdown counts from it, and the logbook takes it for this reading and for a change to this cylinder. " +
+		"Within a minute of typing a reading, a change to any of these fields corrects it; after that, a new gauge or flow is a new reading, timed now unless you give its time."
+}
+
+// renderReadAtNext says that a time typed after the correction window is
+// kept for the next reading, not given to the one shown.
+func (s *supply) renderReadAtNext() app.UI {
+	text := strings.TrimSpace(s.readAtText)
+	_, shown := s.session.lastReading()
+	return app.If(text != "" && s.readAtFor == 0 && shown && s.messages[FieldSupplyReadAt] == "", func() app.UI {
+		return app.P().ID("supply-read-at-next").Class("alv-note").Attr("role", "status").
+			Text("Read at " + text + " is kept for the next reading (the one shown was typed more than a minute ago, and keeps its time): type its gauge or flow, or choose the cylinder.")
+	})
 }
 
 func (s *supply) renderCountdown(cd countdown, msg string) app.UI {
@@ -490,7 +608,7 @@ func (s *supply) renderCountdown(cd countdown, msg string) app.UI {
 		),
 		how("How",
 			app.P().Text("Usable litres above the safe residual ("+residual+", from "+policyFrom+"): cylinder factor (L/psi) × (gauge − residual) for CGA sizes, water capacity (L) × (gauge − residual in bar) for others (common practice)."),
-			app.P().Text("Minutes left = usable litres ÷ flow, counted from the time of the reading on the device clock; rounded down, and clock times truncated to the minute (earlier is the safe side)."),
+			app.P().Text("Minutes left = usable litres ÷ flow, counted from when the gauge was read (Read at; blank: when it was typed, on the device clock); rounded down, and clock times truncated to the minute (earlier is the safe side)."),
 			app.P().Text(fmt.Sprintf("Reserve: the added reserve time of %s (%s min) at the current flow = %s L. Cylinders after the one in use count at their starting gauge; cylinders before it count as spent.",
 				policyFrom, strconv.FormatFloat(cd.ReserveAddMin.Minutes(), 'f', -1, 64), reserveL.String())),
 		),
@@ -521,7 +639,15 @@ func (s *supply) renderPlot(cd countdown, msg string) app.UI {
 	if rmsg != "" {
 		return card.Body(title, app.P().Class("alv-empty").Text(rmsg))
 	}
+	// The clock starts at the earliest reading; the points go in the order
+	// the gauges were read (a reading given an earlier time may follow one
+	// of another cylinder in the list).
 	start := s.session.Readings[0].At()
+	for _, r := range s.session.Readings {
+		if r.At().Before(start) {
+			start = r.At()
+		}
+	}
 	minutesFrom := func(t time.Time) float64 { return t.Sub(start).Minutes() }
 	var readings []plotPoint
 	for _, r := range s.session.Readings {
@@ -532,6 +658,7 @@ func (s *supply) renderPlot(cd countdown, msg string) app.UI {
 		l, _ := physio.Round(c.TotalUsable.Litres(), 0, physio.RoundDown)
 		readings = append(readings, plotPoint{minutesFrom(r.At()), l.InexactFloat64()})
 	}
+	sort.SliceStable(readings, func(i, j int) bool { return readings[i].X < readings[j].X })
 	at := minutesFrom(cd.ReadingAt)
 	total, _ := physio.Round(cd.TotalUsable.Litres(), 0, physio.RoundDown)
 	reserve, _ := physio.Round(cd.Reserve.Litres(), 0, physio.RoundUp)

@@ -26,13 +26,15 @@ import (
 // When several transports are open, the one opened last is used; the
 // screen names it.
 //
-// The card has the Logbook's time control (its rule is lbEntryTime's, the
-// same refusals): blank, a reading is saved timed when it was typed here
-// and a change of cylinder when it was made; a clock time times the next
-// entry saved from here instead, and the field goes back to blank once it
-// is saved. A cylinder change the logbook did not take (a refused time,
-// the logbook busy, a full disk) stays offered with a button until saved:
-// picking the same cylinder again cannot repeat it.
+// A reading is saved timed when its gauge was read (SupplyReading.At: the
+// reading's own Read at, resolved by the Logbook's rule, lbEntryTime; blank,
+// when it was typed here), so that the countdown and the record agree; a
+// time given is a late entry, marked so in the Logbook's timeline. A
+// change of cylinder is saved timed as the new cylinder's first reading.
+// The card has no time control of its own. A cylinder change the logbook
+// did not take (its Read at refused, the logbook busy, a full disk) stays
+// offered with a button until saved: picking the same cylinder again
+// cannot repeat it.
 
 // SupplyLogMark records where a reading was saved in the Logbook: the
 // transport and the record number. It holds no value of the reading.
@@ -50,9 +52,6 @@ type supplyLink struct {
 	status    string             // the last saved entry (role=status)
 	problem   string             // the last refusal (role=alert)
 
-	atText string // the time control: blank = the entry's own time; else hh:mm
-	atMsg  string // why the typed time was refused ("" = not refused)
-
 	change supplyChange // a cylinder change not yet in the logbook
 }
 
@@ -61,11 +60,9 @@ type supplyLink struct {
 type supplyChange struct {
 	transport logbook.TransportID // the open transport when it was made
 	cylinder  int                 // index in the Supply list
-	at        time.Time           // when it was made (the device clock)
+	at        time.Time           // when it was made: its first reading's time; zero until that has one
+	given     bool                // at was given as Read at (a late entry)
 }
-
-// supplyAtField names the card's time control in its refusals.
-const supplyAtField = "Time for the logbook"
 
 // sameShown reports whether l and m draw the same (the refresh count
 // aside).
@@ -194,14 +191,17 @@ func (s *supply) logReading(ctx app.Context) {
 		s.link.problem = "Not saved to the logbook: " + err.Error() + "."
 		return
 	}
-	at, given, err := s.logTime(t)
-	if err != nil {
-		s.link.atMsg = err.Error()
-		s.link.problem = err.Error() + " Nothing was saved to the logbook; the reading is kept on this tablet."
-		return
-	}
-	if !given {
-		at = r.At()
+	at, given := r.At(), r.ReadGiven()
+	if given {
+		// The transport may have opened after the reading was typed here:
+		// its opening bounds a reading saved to it, as in the Logbook. The
+		// given time is a whole minute, so lbEntryTime, asked for that
+		// clock time at that moment, resolves it to itself and applies
+		// the Logbook's bound with its own sentence.
+		if _, _, err := lbEntryTime(supplyReadAtField, lbClockMinute(at), at, t.Opened); err != nil {
+			s.link.problem = err.Error() + " Nothing was saved to the logbook; the reading is kept on this tablet."
+			return
+		}
 	}
 	e.Transport, e.At = t.ID, at
 	what := "reading of " + label
@@ -229,18 +229,24 @@ func (s *supply) logReading(ctx app.Context) {
 	})
 }
 
-// logCylinderChange saves a change of the cylinder in use as an event.
-func (s *supply) logCylinderChange(ctx app.Context, i int) {
+// logCylinderChange saves a change of the cylinder in use as an event at
+// at (given: a time the crew gave; zero: not known yet, the change waits
+// for its first reading).
+func (s *supply) logCylinderChange(ctx app.Context, i int, at time.Time, given bool) {
 	t := s.link.open()
 	if t == nil {
 		return
 	}
-	s.link.change = supplyChange{transport: t.ID, cylinder: i, at: s.now()}
+	s.link.change = supplyChange{transport: t.ID, cylinder: i, at: at, given: given}
+	if at.IsZero() {
+		s.link.problem = "The cylinder change was not saved to the logbook: its time is the new cylinder's Read at, which is refused. Correct it, then save the change with the button."
+		return
+	}
 	s.saveChange(ctx)
 }
 
-// saveChange saves the cylinder change not yet in the logbook, timed when
-// it was made or at the time control's; refused, it stays offered.
+// saveChange saves the cylinder change not yet in the logbook, timed as
+// the new cylinder's first reading; refused, it stays offered.
 func (s *supply) saveChange(ctx app.Context) {
 	c := s.link.change
 	t := s.link.open()
@@ -257,14 +263,16 @@ func (s *supply) saveChange(ctx app.Context) {
 		s.link.problem = "The cylinder change was not saved to the logbook: " + problem
 		return
 	}
-	at, given, err := s.logTime(t)
-	if err != nil {
-		s.link.atMsg = err.Error()
-		s.link.problem = err.Error() + " The cylinder change was not saved to the logbook; save it with the button once the time is right."
+	at, given := c.at, c.given
+	if at.IsZero() {
+		s.link.problem = "The cylinder change was not saved to the logbook: its time is the new cylinder's Read at, which is refused. Correct it, then save the change with the button."
 		return
 	}
-	if !given {
-		at = c.at
+	if given {
+		if _, _, err := lbEntryTime(supplyReadAtField, lbClockMinute(at), at, t.Opened); err != nil {
+			s.link.problem = err.Error() + " The cylinder change was not saved to the logbook."
+			return
+		}
 	}
 	e := &logbook.Entry{Transport: t.ID, Kind: logbook.KindEvent, At: at,
 		Event: &logbook.Event{Type: logbook.EventCylinderChange, Cylinder: label}}
@@ -273,12 +281,6 @@ func (s *supply) saveChange(ctx app.Context) {
 			s.link.change = supplyChange{}
 		}
 	})
-}
-
-// logTime reads the card's time control for an entry of t saved now
-// (lbEntryTime: blank gives not given).
-func (s *supply) logTime(t *logbook.Transport) (time.Time, bool, error) {
-	return lbEntryTime(supplyAtField, s.link.atText, s.now(), t.Opened)
 }
 
 // supplyRecordAt is the time record seq of t carries, or else.
@@ -292,19 +294,19 @@ func supplyRecordAt(t *logbook.Transport, seq uint64, otherwise time.Time) time.
 }
 
 // appendEntry appends e in a goroutine (the store blocks) and reports the
-// outcome on screen only once the vault answered. given: e carries the
-// time typed in the time control, which goes back to blank once saved.
+// outcome on screen only once the vault answered. given: e carries a time
+// the crew gave (Read at), which the status names as a late entry.
 // The transport is read first as the vault holds it: one closed since
 // this screen read it takes no new entry (lbCloseCheckStored).
 func (s *supply) appendEntry(ctx app.Context, what string, e *logbook.Entry, given bool, onSaved func(app.Context, logbook.IndexEntry)) {
-	s.link.busy, s.link.status, s.link.problem, s.link.atMsg = "saving the "+what, "", "", ""
+	s.link.busy, s.link.status, s.link.problem = "saving the "+what, "", ""
 	if s.mounted && s.Mounted() {
 		ctx = s.mctx
 	}
 	ctx.Async(func() {
 		c := context.Background()
 		var ie logbook.IndexEntry
-		err := lbCloseCheckStored(c, s.vault, supplyAtField, e, given)
+		err := lbCloseCheckStored(c, s.vault, supplyReadAtField, e, given)
 		if err == nil {
 			ie, err = s.vault.Append(c, e)
 		}
@@ -322,8 +324,6 @@ func (s *supply) appendEntry(ctx app.Context, what string, e *logbook.Entry, giv
 			s.link.status = "Saved to the logbook: " + what + ", record " + ie.Record() + ", at " + lbClock(ie.At) + "."
 			if given {
 				s.link.status = "Saved to the logbook: " + what + ", record " + ie.Record() + ", for " + lbClockMinute(ie.At) + " (a late entry, written at " + lbClock(e.Written) + ")."
-				s.link.atText = ""
-				lbClearInputs("supply-log-at")
 			}
 			if onSaved != nil {
 				onSaved(ctx, ie)
@@ -371,14 +371,16 @@ func (s *supply) renderLogbook() app.UI {
 			body = append(body, app.Button().ID("supply-log-save").Type("submit").Class("alv-button alv-primary").Text(label))
 		}
 		if c := l.change; c != (supplyChange{}) && c.transport == t.ID && l.busy == "" {
+			when := "its time to be given as Read at"
+			if !c.at.IsZero() {
+				when = hhmm(c.at)
+			}
 			body = append(body, app.Button().ID("supply-log-change").Type("button").Class("alv-button").
-				Text(fmt.Sprintf("Save the change to cylinder %d (%s) to the logbook", c.cylinder+1, hhmm(c.at))).
+				Text(fmt.Sprintf("Save the change to cylinder %d (%s) to the logbook", c.cylinder+1, when)).
 				OnClick(func(ctx app.Context, e app.Event) { s.saveChange(ctx) }))
 		}
 		body = append(body,
-			textField("supply-log-at", "Time for the logbook (hh:mm, 24-hour; blank = now)", l.atText, l.atMsg,
-				func(ctx app.Context, text string) { l.atText, l.atMsg = text, "" }),
-			app.P().ID("supply-log-at-note").Class("alv-note").Text("Leave blank to save to the logbook timed as typed here. For a late entry, type when it happened (within the last 24 hours, not before the transport opened): the next reading or cylinder change saved to the logbook takes that time, is marked there as entered late, and the field goes back to blank. The countdown on this screen still counts from when the reading was typed here, so for a reading taken earlier it shows more time than is left."),
+			app.P().ID("supply-log-time-note").Class("alv-note").Text("The logbook takes a reading at the time the countdown counts from: its Read at, or when it was typed here. A Read at given is a late entry there, marked as entered late. A change of cylinder is saved when you choose it, timed as that cylinder's first reading (give Read at before choosing it, or within a minute after)."),
 		)
 	}
 	body = append(body,

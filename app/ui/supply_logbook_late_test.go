@@ -46,72 +46,67 @@ func supplyLateSetup(t *testing.T, store logbook.Store) (*supply, *vaultSession,
 
 func at0506(hh, mm int) time.Time { return time.Date(2030, 5, 6, hh, mm, 0, 0, time.Local) }
 
-// Supply's logbook card takes a late time by the Logbook's rule (lbEntryTime;
-// DEVELOPERS.md, late entries): a malformed time and one before the
-// opening are refused with the Logbook's sentences under the card's own
-// field name, the time kept in its field, the reading kept and nothing
-// saved; a good time times the reading, the field goes back to blank, and
-// the next entry (a cylinder change) is timed when it was made. A
-// correction of the late reading keeps its time. The times are our own
-// scenario (opened 08:00, typed at 09:12).
+// A reading given a Read at goes to the logbook at that time (the
+// Logbook's rule, lbEntryTime; DEVELOPERS.md, late entries), the same time
+// the countdown counts from. Refused before the transport's opening, with
+// the field, the range and the format named, what was typed kept and
+// nothing recorded or saved; read at 09:02 and typed at 09:12, the
+// countdown shows 10 minutes less than at the reading, and the logbook has
+// the reading at 09:02, a late entry. A correction within the minute keeps
+// that time; the next reading, a change of cylinder typed later, takes no
+// time from it. The times are our own scenario (opened 08:00, typed at
+// 09:12).
 func TestSupplyLateReading(t *testing.T) {
-	s, sess, ctx, e, id, _ := supplyLateSetup(t, logbook.NewMemStore())
+	s, sess, ctx, e, id, clock := supplyLateSetup(t, logbook.NewMemStore())
 	html := rendered(t, s)
-	for _, want := range []string{`id="supply-log-at"`, `id="supply-log-at-note"`, "Time for the logbook (hh:mm, 24-hour; blank = now)", "not before the transport opened"} {
-		if !strings.Contains(html, want) {
-			t.Errorf("the card lacks %q", want)
-		}
+	if strings.Contains(html, `id="supply-log-at"`) {
+		t.Error("the logbook card still has a time control of its own")
 	}
+	if note := plainText(html, "supply-log-time-note"); !strings.Contains(note, "Read at") || strings.Contains(note, "more time than is left") {
+		t.Errorf("the card's note is %q", note)
+	}
+	if note := plainText(html, "supply-read-at-note"); !strings.Contains(note, "nor before the open transport's opening") {
+		t.Errorf("the reading's note is %q", note)
+	}
+
+	s.edit(ctx, FieldSupplyReadAt, "07:55")
 	s.edit(ctx, FieldSupplyGauge, "1500")
 	s.edit(ctx, FieldSupplyFlow, "10")
-
-	for _, c := range []struct{ typed, want string }{
-		// The Logbook's refusals (app/ui/logbook_when.go), with this field's name.
-		{"9.02", "is not a clock time. Type hh:mm in 24-hour time, 00:00 to 23:59"},
-		{"07:55", "is before the transport opened (2030-05-06 08:00:00)"},
-	} {
-		s.link.atText = c.typed
-		s.logReading(ctx)
-		e.ConsumeAll()
-		p := s.link.problem
-		for _, want := range []string{"Time for the logbook", c.want, "Nothing was saved to the logbook", "the reading is kept"} {
-			if !strings.Contains(p, want) {
-				t.Errorf("%q: the refusal %q lacks %q", c.typed, p, want)
-			}
-		}
-		if s.link.atText != c.typed || s.link.atMsg == "" {
-			t.Errorf("%q refused: the field holds %q, its message %q", c.typed, s.link.atText, s.link.atMsg)
-		}
-		if r, _ := s.session.lastReading(); r.Log != nil || r.Gauge != "1500" {
-			t.Errorf("%q refused: the reading is %+v", c.typed, r)
-		}
-		html := rendered(t, s)
-		if !strings.Contains(html, `id="supply-log-at-msg"`) || !strings.Contains(html, `id="supply-log-save"`) {
-			t.Errorf("%q refused: the field's message or the save button is not shown", c.typed)
-		}
-		if tr := transportOf(t, sess, id); len(tr.History) != 1 {
-			t.Fatalf("%q refused: the transport holds %d records", c.typed, len(tr.History))
+	html = rendered(t, s)
+	msg := plainText(html, FieldSupplyReadAt+"-msg")
+	for _, want := range []string{"Read at: 07:55 (2030-05-06 07:55) is before the transport opened (2030-05-06 08:00:00)", "Give a time from the opening to now as hh:mm (24-hour)"} {
+		if !strings.Contains(msg, want) {
+			t.Errorf("the refusal %q lacks %q", msg, want)
 		}
 	}
+	if len(s.session.Readings) != 0 || s.readAtText != "07:55" || s.gaugeText != "1500" || s.flowText != "10" || strings.Contains(html, `id="supply-log-save"`) {
+		t.Errorf("refused: readings %+v, fields %q %q %q", s.session.Readings, s.readAtText, s.gaugeText, s.flowText)
+	}
 
-	s.link.atText = "09:02"
+	s.edit(ctx, FieldSupplyReadAt, "09:02")
+	// REFERENCES §7: E cylinder 0.28 L/psi, residual 200 psi: (1500 − 200)
+	// × 0.28 ÷ 10 L/min = 36.4 min from 09:02: 26 min left at 09:12, the
+	// change at 09:38.
+	if got := countdownShown(t, s); got["supply-minutes"] != "26" || got["supply-minutes-reading"] != "36" || got["supply-change-at"] != "09:38" {
+		t.Errorf("the countdown of the reading read at 09:02: %v", got)
+	}
 	s.logReading(ctx)
 	e.ConsumeAll()
 	tr := transportOf(t, sess, id)
 	if len(tr.Gauges) != 1 || !tr.Gauges[0].At.Equal(at0506(9, 2)) {
 		t.Fatalf("the late reading: %+v (problem %q), want one at 09:02", tr.Gauges, s.link.problem)
 	}
-	if s.link.atText != "" || s.link.atMsg != "" {
-		t.Errorf("after saving the field holds %q (%q), want blank", s.link.atText, s.link.atMsg)
-	}
 	if st := s.link.status; !strings.Contains(st, "for 09:02") || !strings.Contains(st, "a late entry, written at 09:12:00") {
 		t.Errorf("status %q does not name the time given and the time written", st)
 	}
-	if r, _ := s.session.lastReading(); r.Log == nil || r.Log.Seq != tr.Gauges[0].Seq {
-		t.Errorf("the reading is not marked saved: %+v", r)
+	if r, _ := s.session.lastReading(); r.Log == nil || r.Log.Seq != tr.Gauges[0].Seq || !r.At().Equal(at0506(9, 2)) {
+		t.Errorf("the reading is not marked saved, or lost its time: %+v", r)
+	}
+	if s.readAtText != "09:02" {
+		t.Errorf("Read at shows %q after saving, want the reading's 09:02", s.readAtText)
 	}
 
-	// Corrected within the minute, untimed: the correction keeps 09:02.
+	// Corrected within the minute: the correction keeps 09:02.
 	s.edit(ctx, FieldSupplyGauge, "1450")
 	s.logReading(ctx)
 	e.ConsumeAll()
@@ -120,47 +115,79 @@ func TestSupplyLateReading(t *testing.T) {
 		t.Errorf("the corrected late reading: %+v (problem %q), want it still at 09:02", tr.Gauges, s.link.problem)
 	}
 
-	// The next entry, with the field blank, is timed when it was made.
+	// 09:20: the change to cylinder 2 is a new reading, timed now.
+	*clock = at0506(9, 20)
 	s.pickInUse(ctx, 1)
 	e.ConsumeAll()
 	tr = transportOf(t, sess, id)
-	if len(tr.Events) != 1 || !tr.Events[0].At.Equal(at0506(9, 12)) || tr.Events[0].Value.Cylinder != "E2" {
-		t.Errorf("the cylinder change after the late reading: %+v, want E2 at 09:12", tr.Events)
+	if len(tr.Events) != 1 || !tr.Events[0].At.Equal(at0506(9, 20)) || tr.Events[0].Value.Cylinder != "E2" {
+		t.Errorf("the cylinder change after the late reading: %+v, want E2 at 09:20", tr.Events)
+	}
+	if r, _ := s.session.lastReading(); r.Cylinder != 1 || r.ReadGiven() || s.readAtText != "" {
+		t.Errorf("the new cylinder's reading took the old time: %+v, Read at %q", r, s.readAtText)
 	}
 }
 
-// A cylinder change whose time is refused, or that the store refuses, is
-// not lost: it is offered with a button (picking the same cylinder again
-// does nothing) until the logbook takes it, once.
+// A reading given a time before the transport opened (typed here before
+// the transport was started in the Logbook) is not saved to it: the
+// Logbook's sentence, the reading kept on this tablet.
+func TestSupplyReadBeforeOpening(t *testing.T) {
+	s, sess, ctx, e, id, _ := supplyLateSetup(t, logbook.NewMemStore())
+	s.session.record(SupplyReading{AtUnixMilli: at0506(9, 12).UnixMilli(), ReadUnixMilli: at0506(7, 50).UnixMilli(), Gauge: "1500", GaugeUnit: UnitPsi, Flow: "10"})
+	s.logReading(ctx)
+	e.ConsumeAll()
+	if p := s.link.problem; !strings.Contains(p, "Read at: 07:50 (2030-05-06 07:50) is before the transport opened") || !strings.Contains(p, "the reading is kept on this tablet") {
+		t.Errorf("problem %q", p)
+	}
+	if tr := transportOf(t, sess, id); len(tr.Gauges) != 0 {
+		t.Errorf("saved: %+v", tr.Gauges)
+	}
+}
+
+// A change of cylinder takes the new cylinder's first reading's time: Read
+// at typed for it before choosing it times both. With Read at refused, the
+// change is not saved but offered with a button, and takes the time once
+// Read at is right; a change the store refuses stays offered until the
+// logbook takes it, once.
 func TestSupplyLateCylinderChange(t *testing.T) {
 	store := &failingStore{Store: logbook.NewMemStore()}
 	s, sess, ctx, e, id, clock := supplyLateSetup(t, store)
 	s.edit(ctx, FieldSupplyGauge, "1500")
-	s.edit(ctx, FieldSupplyFlow, "10")
+	s.edit(ctx, FieldSupplyFlow, "10") // typed 09:12
 
-	s.link.atText = "25:00"
+	*clock = at0506(9, 14)
+	s.edit(ctx, FieldSupplyReadAt, "09:11") // before the reading of cylinder 1: fine for cylinder 2
+	if r, _ := s.session.lastReading(); r.ReadGiven() {
+		t.Fatalf("a time typed for the next reading moved this one: %+v", r)
+	}
+	s.edit(ctx, FieldSupplyReadAt, "25:00")
 	s.pickInUse(ctx, 1)
 	e.ConsumeAll()
-	if !strings.Contains(s.link.problem, "Time for the logbook") || !strings.Contains(s.link.problem, "00:00 to 23:59") || s.link.atText != "25:00" {
-		t.Errorf("a change with 25:00: problem %q, field %q", s.link.problem, s.link.atText)
+	if !strings.Contains(s.messages[FieldSupplyReadAt], "00:00 to 23:59") || !strings.Contains(s.link.problem, "Read at, which is refused") {
+		t.Errorf("a change with Read at 25:00: message %q, problem %q", s.messages[FieldSupplyReadAt], s.link.problem)
 	}
-	if got := htmlText(rendered(t, s), "supply-log-change"); !strings.Contains(got, "cylinder 2") || !strings.Contains(got, "09:12") {
+	if got := htmlText(rendered(t, s), "supply-log-change"); !strings.Contains(got, "cylinder 2") {
 		t.Fatalf("the unsaved change is not offered: %q", got)
 	}
 	if tr := transportOf(t, sess, id); len(tr.Events) != 0 {
 		t.Fatalf("a change with a refused time was saved: %+v", tr.Events)
 	}
+	s.saveChange(ctx) // still no time
+	e.ConsumeAll()
+	if tr := transportOf(t, sess, id); len(tr.Events) != 0 {
+		t.Fatalf("a change with no time was saved: %+v", tr.Events)
+	}
 
-	// A full disk: refused by the store, still offered.
-	*clock = at0506(9, 14)
-	s.link.atText = "09:10"
+	s.edit(ctx, FieldSupplyReadAt, "09:10")
+	if r, _ := s.session.lastReading(); r.Cylinder != 1 || !r.At().Equal(at0506(9, 10)) {
+		t.Fatalf("cylinder 2's reading: %+v (messages %v)", r, s.messages)
+	}
 	store.fail = true
 	s.saveChange(ctx)
 	e.ConsumeAll()
-	if !strings.Contains(s.link.problem, "storage is full") || !strings.Contains(rendered(t, s), `id="supply-log-change"`) || s.link.atText != "09:10" {
-		t.Errorf("a change on a full disk: problem %q, field %q, or no button", s.link.problem, s.link.atText)
+	if !strings.Contains(s.link.problem, "storage is full") || !strings.Contains(rendered(t, s), `id="supply-log-change"`) {
+		t.Errorf("a change on a full disk: problem %q, or no button", s.link.problem)
 	}
-
 	store.fail = false
 	s.saveChange(ctx)
 	e.ConsumeAll()
@@ -168,13 +195,23 @@ func TestSupplyLateCylinderChange(t *testing.T) {
 	if len(tr.Events) != 1 || !tr.Events[0].At.Equal(at0506(9, 10)) || tr.Events[0].Value.Cylinder != "E2" {
 		t.Fatalf("the change saved again: %+v (problem %q), want one, E2 at 09:10", tr.Events, s.link.problem)
 	}
-	if strings.Contains(rendered(t, s), `id="supply-log-change"`) || s.link.atText != "" {
-		t.Errorf("after saving the change it is still offered, or the field holds %q", s.link.atText)
+	if strings.Contains(rendered(t, s), `id="supply-log-change"`) {
+		t.Error("after saving the change it is still offered")
 	}
 	s.saveChange(ctx)
 	e.ConsumeAll()
 	if n := len(transportOf(t, sess, id).Events); n != 1 {
 		t.Errorf("%d change events, want 1", n)
+	}
+
+	// Typed first, Read at times the change saved as the cylinder is chosen.
+	*clock = at0506(9, 30)
+	s.edit(ctx, FieldSupplyReadAt, "09:25")
+	s.pickInUse(ctx, 0)
+	e.ConsumeAll()
+	tr = transportOf(t, sess, id)
+	if len(tr.Events) != 2 || !tr.Events[1].At.Equal(at0506(9, 25)) || tr.Events[1].Value.Cylinder != "E1" {
+		t.Errorf("a change with Read at 09:25: %+v (problem %q)", tr.Events, s.link.problem)
 	}
 }
 

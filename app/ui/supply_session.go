@@ -37,19 +37,41 @@ type SupplyCylinder struct {
 }
 
 // SupplyReading is one gauge reading during the transport.
+//
+// It has two times. AtUnixMilli is when it was typed on this tablet (the
+// device clock): it names the reading (logReading finds it by it to mark
+// its logbook record) and decides what a correction is (readingMerge).
+// ReadUnixMilli is when the gauge was read, when the crew gave it (Read
+// at, a clock time resolved by lbEntryTime); 0 means it was read as it
+// was typed. A session stored before readings had a read time has none,
+// and each of its readings counts from when it was typed, as it did.
 type SupplyReading struct {
-	AtUnixMilli int64  `json:"at"`
-	Cylinder    int    `json:"cylinder"` // index in the cylinder list
-	Gauge       string `json:"gauge"`
-	GaugeUnit   string `json:"gaugeUnit"`
-	Flow        string `json:"flow"` // L/min
+	AtUnixMilli   int64  `json:"at"`
+	ReadUnixMilli int64  `json:"read,omitempty"`
+	Cylinder      int    `json:"cylinder"` // index in the cylinder list
+	Gauge         string `json:"gauge"`
+	GaugeUnit     string `json:"gaugeUnit"`
+	Flow          string `json:"flow"` // L/min
 
 	Log      *SupplyLogMark `json:"log,omitempty"`      // saved to the Logbook as this record
 	Corrects *SupplyLogMark `json:"corrects,omitempty"` // replaces a reading saved as this record
 }
 
-// At returns the time of the reading.
-func (r SupplyReading) At() time.Time { return time.UnixMilli(r.AtUnixMilli) }
+// At returns when the gauge was read: the time given for it, or else when
+// it was typed. The countdown counts from it and the logbook entry of the
+// reading carries it.
+func (r SupplyReading) At() time.Time {
+	if r.ReadUnixMilli != 0 {
+		return time.UnixMilli(r.ReadUnixMilli)
+	}
+	return time.UnixMilli(r.AtUnixMilli)
+}
+
+// Typed returns when the reading was typed on this tablet.
+func (r SupplyReading) Typed() time.Time { return time.UnixMilli(r.AtUnixMilli) }
+
+// ReadGiven reports whether the crew gave the time the gauge was read.
+func (r SupplyReading) ReadGiven() bool { return r.ReadUnixMilli != 0 }
 
 // SupplySession is what the Supply screen keeps across reloads.
 type SupplySession struct {
@@ -117,19 +139,46 @@ func (s SupplySession) lastReading() (SupplyReading, bool) {
 	return s.Readings[len(s.Readings)-1], true
 }
 
-// record adds r, or replaces the last reading when it is of the same
-// cylinder and less than readingMerge older (a correction). A correction
-// of a reading saved to the Logbook remembers that record, so that saving
-// it corrects the record instead of adding a second reading.
+// merges reports whether a reading of cylinder typed at typed replaces the
+// last reading as a correction: same cylinder, typed less than
+// readingMerge after it (typing times: a correction is a second go at
+// what was just typed, whatever time was given for the gauge).
+func (s SupplySession) merges(cylinder int, typed time.Time) bool {
+	last, ok := s.lastReading()
+	return ok && last.Cylinder == cylinder && typed.Sub(last.Typed()) < readingMerge
+}
+
+// previousOf returns the latest-read reading of cylinder before the last
+// reading when skipLast (the one a correction replaces), or among all
+// readings; false when there is none.
+func (s SupplySession) previousOf(cylinder int, skipLast bool) (SupplyReading, bool) {
+	rs := s.Readings
+	if skipLast && len(rs) > 0 {
+		rs = rs[:len(rs)-1]
+	}
+	var prev SupplyReading
+	found := false
+	for _, r := range rs {
+		if r.Cylinder == cylinder && (!found || !r.At().Before(prev.At())) {
+			prev, found = r, true
+		}
+	}
+	return prev, found
+}
+
+// record adds r, or replaces the last reading when it merges (a
+// correction). A correction of a reading saved to the Logbook remembers
+// that record, so that saving it corrects the record instead of adding a
+// second reading.
 func (s *SupplySession) record(r SupplyReading) {
 	if n := len(s.Readings); n > 0 {
 		last := s.Readings[n-1]
-		if last.Cylinder == r.Cylinder && r.At().Sub(last.At()) < readingMerge {
+		if s.merges(r.Cylinder, r.Typed()) {
 			r.Log, r.Corrects = nil, last.Corrects
 			if last.Log != nil {
 				r.Corrects = last.Log
 			}
-			if last.Gauge == r.Gauge && last.GaugeUnit == r.GaugeUnit && last.Flow == r.Flow {
+			if last.Gauge == r.Gauge && last.GaugeUnit == r.GaugeUnit && last.Flow == r.Flow && last.ReadUnixMilli == r.ReadUnixMilli {
 				r.Log, r.Corrects, r.AtUnixMilli = last.Log, last.Corrects, last.AtUnixMilli // nothing changed
 			}
 			s.Readings[n-1] = r
