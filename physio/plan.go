@@ -115,17 +115,20 @@ func ComputePlan(doc *PlanDocument) (*PlanResult, error) {
 	// computes a plan on every keystroke, and in wasm each growth is an
 	// allocation and a copy).
 	legs := len(doc.Legs)
-	c := &planComputer{doc: doc, res: &PlanResult{
+	ground := planGroundFigureCount(&doc.Patient)
+	ex := newExplainArena(3+legs+cylinders,
+		planExplainFigures+ground+planLegFigures*legs+cylinders+planTrappedGasFigures)
+	c := &planComputer{doc: doc, ex: ex, res: &PlanResult{
 		EngineVersion:   EngineVersion,
 		DocumentVersion: doc.Version,
 		Title:           doc.Title,
-		Explain:         make(map[string]Figure, planExplainFigures),
 		Caution:         PlanCaution,
 		Assumptions:     make([]PlanAssumption, 0, planAssumptionsUsual),
 		Warnings:        []PlanWarning{},
 		Legs:            make([]PlanLegResult, 0, legs),
 		Cylinders:       make([]PlanCylinderResult, 0, cylinders),
 	}}
+	c.res.Explain = c.ex.newExplanation(planExplainFigures)
 	c.perLeg = make([]planLegState, 0, legs)
 	c.numbers = make([]Number, 0, planOptionalNumbers+legs+2*cylinders)
 	c.ints = make([]int, 0, cylinders+legs)
@@ -156,6 +159,7 @@ const (
 type planComputer struct {
 	doc *PlanDocument
 	res *PlanResult
+	ex  explainArena // where the result's Explanations are made
 	err error
 
 	// inputs is the backing array every figure's inputs are copied into:
@@ -241,14 +245,14 @@ func (c *planComputer) docErr(path, format string, args ...any) {
 
 // figure rounds x, records its Figure under key in ex, and returns the
 // rounded number.
-func (c *planComputer) figure(ex map[string]Figure, key string, x float64, places int32, r Rounding,
+func (c *planComputer) figure(ex Explanation, key string, x float64, places int32, r Rounding,
 	unit, formula, source string, inputs ...FigureInput) Number {
 	d, ok := planRound(x, places, r)
 	if !ok {
 		c.stepErr(key, fmt.Errorf("result is not a finite number: %w", ErrImpossible))
 	}
 	n := Number{d}
-	ex[key] = Figure{Value: n, Unit: unit, Formula: formula, Inputs: c.keep(inputs), Source: source, Rounding: r.String()}
+	ex.set(key, Figure{Value: n, Unit: unit, Formula: formula, Inputs: c.keep(inputs), Source: source, Rounding: r.String()})
 	return n
 }
 
@@ -452,7 +456,7 @@ func (c *planComputer) route() {
 func (c *planComputer) ground() {
 	pt := c.doc.Patient
 	g := &c.res.Ground
-	g.Explain = make(map[string]Figure, planGroundFigureCount(&c.doc.Patient))
+	g.Explain = c.ex.newExplanation(planGroundFigureCount(&c.doc.Patient))
 	g.MeasuredAt = pt.MeasuredAt
 	if g.MeasuredAt == "" {
 		g.MeasuredAt = WhereOrigin
@@ -643,7 +647,7 @@ func (c *planComputer) legs() {
 
 func (c *planComputer) leg(i int, leg PlanLeg, target float64) PlanLegResult {
 	o := leg.Oxygen
-	ex := make(map[string]Figure, planLegFigures)
+	ex := c.ex.newExplanation(planLegFigures)
 	lr := PlanLegResult{Index: i, Label: leg.Label, Where: leg.Where, Device: o.Device, Explain: ex,
 		Minutes: num(c.perLeg[i].minutes, 2, RoundNearest), Options: []PlanOption{}}
 	h, pb, minutes := c.perLeg[i].alt, c.perLeg[i].pb, c.perLeg[i].minutes
@@ -913,7 +917,8 @@ func (c *planComputer) limits() {
 	}
 	r.FiO2Possible = possible
 	r.FiO2Needed = r.Legs[worst].FiO2Needed
-	r.Explain["fio2_needed"] = r.Legs[worst].Explain["fio2_needed"]
+	worstFiO2, _ := r.Legs[worst].Explain.Get("fio2_needed")
+	r.Explain.set("fio2_needed", worstFiO2)
 
 	maxCabin, err := MaxAltitudeForFiO2(c.groundFiO2, c.groundPB, 1, c.ph2o)
 	if err != nil && !errors.Is(err, ErrOutOfRange) {
@@ -1089,7 +1094,7 @@ func (c *planComputer) oxygen() {
 		}
 		formula := planUsableFormula(cyl.Method())
 		for k := 0; k < count; k++ {
-			ex := make(map[string]Figure, 1)
+			ex := c.ex.newExplanation(1)
 			name := lineName
 			if count > 1 {
 				name += " #" + strconv.Itoa(k+1)
@@ -1290,7 +1295,7 @@ func gaugeUnit(s PlanSupply) string {
 func (c *planComputer) trappedGas() {
 	r := c.res
 	tg := &r.TrappedGas
-	tg.Explain = make(map[string]Figure, planTrappedGasFigures)
+	tg.Explain = c.ex.newExplanation(planTrappedGasFigures)
 	tg.Caution = TrappedGasCaution
 	from, to := c.pressure("origin pressure", c.origin), c.perLeg[r.HighestLeg].pb
 	if c.err != nil {
@@ -1307,7 +1312,8 @@ func (c *planComputer) trappedGas() {
 	pOrigin, pHighest := in("P origin", from.MmHg(), "mmHg"), in("P highest", to.MmHg(), "mmHg")
 	tg.Ratio = c.figure(tg.Explain, "ratio", ratio, 3, RoundUp, "", "V2/V1 = P1/P2", srcBoyle, pOrigin, pHighest)
 	r.GasExpansionRatio = tg.Ratio
-	r.Explain["gas_expansion_ratio"] = tg.Explain["ratio"]
+	ratioFig, _ := tg.Explain.Get("ratio")
+	r.Explain.set("gas_expansion_ratio", ratioFig)
 	tg.CuffMl = planCuffNumber
 	cuff, err := ExpandedVolume(Millilitres(planCuffMl), from, to)
 	c.stepErr("cuff expansion", err)

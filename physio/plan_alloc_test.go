@@ -108,17 +108,17 @@ func scribble(r *PlanResult) {
 		}
 	}
 	for _, ex := range planExplains(r) {
-		for k, f := range ex {
+		for i := range ex.list.figs {
+			f := &ex.list.figs[i].fig
 			for j := range f.Inputs {
 				f.Inputs[j] = FigureInput{Name: "scribbled"}
 			}
-			ex[k] = f
 		}
 	}
 }
 
-func planExplains(r *PlanResult) []map[string]Figure {
-	all := []map[string]Figure{r.Explain, r.Ground.Explain, r.TrappedGas.Explain}
+func planExplains(r *PlanResult) []Explanation {
+	all := []Explanation{r.Explain, r.Ground.Explain, r.TrappedGas.Explain}
 	for _, l := range r.Legs {
 		all = append(all, l.Explain)
 	}
@@ -179,7 +179,8 @@ func TestPlanResultNoAliasing(t *testing.T) {
 
 		before, _ := json.Marshal(r)
 		for _, ex := range planExplains(r) {
-			for _, f := range ex {
+			for _, kf := range ex.list.figs {
+				f := kf.fig
 				if len(f.Inputs) > 0 && cap(f.Inputs) != len(f.Inputs) {
 					t.Errorf("%s: a figure's inputs have room for %d more: an append would write past them", name, cap(f.Inputs)-len(f.Inputs))
 				}

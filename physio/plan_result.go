@@ -135,29 +135,29 @@ type PlanResult struct {
 	TrappedGas  PlanTrappedGasResult `json:"trapped_gas"`
 	Assumptions []PlanAssumption     `json:"assumptions"`
 	Warnings    []PlanWarning        `json:"warnings"`
-	Explain     map[string]Figure    `json:"explain"`
+	Explain     Explanation          `json:"explain"`
 	Caution     string               `json:"caution"`
 }
 
 // PlanGroundResult is the patient's ground state as the engine used it.
 type PlanGroundResult struct {
-	MeasuredAt         string            `json:"measured_at"`
-	AltitudeFt         Number            `json:"altitude_ft"`
-	PressureMmHg       Number            `json:"pressure_mmhg"`
-	WaterVapourMmHg    Number            `json:"water_vapour_mmhg"`
-	FiO2               Number            `json:"fio2"`
-	PaCO2MmHg          Number            `json:"paco2_mmhg"`
-	RQ                 Number            `json:"rq"`
-	AlveolarPO2MmHg    Number            `json:"pao2_alveolar_mmhg"`
-	PaO2MmHg           Number            `json:"pao2_arterial_mmhg"`
-	PaO2Source         string            `json:"pao2_source"` // "measured" or "from_spo2"
-	SpO2Percent        Number            `json:"spo2_percent"`
-	SpO2Source         string            `json:"spo2_source"` // "measured" or "from_pao2"
-	AARatio            Number            `json:"aa_ratio"`
-	AaGradientMmHg     Number            `json:"aa_gradient_mmhg"`
-	ExpectedAaGradient *Number           `json:"expected_aa_gradient_mmhg"`
-	ContentMLPerDL     *Number           `json:"cao2_ml_dl"`
-	Explain            map[string]Figure `json:"explain"`
+	MeasuredAt         string      `json:"measured_at"`
+	AltitudeFt         Number      `json:"altitude_ft"`
+	PressureMmHg       Number      `json:"pressure_mmhg"`
+	WaterVapourMmHg    Number      `json:"water_vapour_mmhg"`
+	FiO2               Number      `json:"fio2"`
+	PaCO2MmHg          Number      `json:"paco2_mmhg"`
+	RQ                 Number      `json:"rq"`
+	AlveolarPO2MmHg    Number      `json:"pao2_alveolar_mmhg"`
+	PaO2MmHg           Number      `json:"pao2_arterial_mmhg"`
+	PaO2Source         string      `json:"pao2_source"` // "measured" or "from_spo2"
+	SpO2Percent        Number      `json:"spo2_percent"`
+	SpO2Source         string      `json:"spo2_source"` // "measured" or "from_pao2"
+	AARatio            Number      `json:"aa_ratio"`
+	AaGradientMmHg     Number      `json:"aa_gradient_mmhg"`
+	ExpectedAaGradient *Number     `json:"expected_aa_gradient_mmhg"`
+	ContentMLPerDL     *Number     `json:"cao2_ml_dl"`
+	Explain            Explanation `json:"explain"`
 }
 
 // PlanOption is a set-up that would deliver a leg's needed FiO2: an option
@@ -175,55 +175,55 @@ type PlanOption struct {
 // at the leg's set-up; pao2_expected_mmhg the arterial PaO2 expected by the
 // constant a/A ratio.
 type PlanLegResult struct {
-	Index               int               `json:"index"`
-	Label               string            `json:"label,omitempty"`
-	Where               string            `json:"where"`
-	StartMinute         Number            `json:"start_minute"`
-	Minutes             Number            `json:"minutes"`
-	Device              Device            `json:"device"`
-	AltitudeFt          Number            `json:"altitude_ft"`
-	PressureMmHg        Number            `json:"pressure_mmhg"`
-	FiO2DeliveredLow    Number            `json:"fio2_delivered_low"`
-	FiO2DeliveredHigh   Number            `json:"fio2_delivered_high"`
-	PAO2MmHg            Number            `json:"pao2_mmhg"`
-	PaO2ExpectedMmHg    Number            `json:"pao2_expected_mmhg"`
-	SpO2ExpectedPercent Number            `json:"spo2_expected_percent"`
-	ContentMLPerDL      *Number           `json:"cao2_expected_ml_dl"`
-	FiO2Needed          Number            `json:"fio2_needed"`
-	FiO2Possible        bool              `json:"fio2_possible"`
-	Delivers            bool              `json:"delivers"`
-	OxygenLpm           Number            `json:"oxygen_lpm"`
-	OxygenL             Number            `json:"oxygen_l"`
-	Options             []PlanOption      `json:"options"`
-	Explain             map[string]Figure `json:"explain"`
+	Index               int          `json:"index"`
+	Label               string       `json:"label,omitempty"`
+	Where               string       `json:"where"`
+	StartMinute         Number       `json:"start_minute"`
+	Minutes             Number       `json:"minutes"`
+	Device              Device       `json:"device"`
+	AltitudeFt          Number       `json:"altitude_ft"`
+	PressureMmHg        Number       `json:"pressure_mmhg"`
+	FiO2DeliveredLow    Number       `json:"fio2_delivered_low"`
+	FiO2DeliveredHigh   Number       `json:"fio2_delivered_high"`
+	PAO2MmHg            Number       `json:"pao2_mmhg"`
+	PaO2ExpectedMmHg    Number       `json:"pao2_expected_mmhg"`
+	SpO2ExpectedPercent Number       `json:"spo2_expected_percent"`
+	ContentMLPerDL      *Number      `json:"cao2_expected_ml_dl"`
+	FiO2Needed          Number       `json:"fio2_needed"`
+	FiO2Possible        bool         `json:"fio2_possible"`
+	Delivers            bool         `json:"delivers"`
+	OxygenLpm           Number       `json:"oxygen_lpm"`
+	OxygenL             Number       `json:"oxygen_l"`
+	Options             []PlanOption `json:"options"`
+	Explain             Explanation  `json:"explain"`
 }
 
 // PlanCylinderResult is one cylinder in the order of use (the order of the
 // supply list, each line's count in turn, each used down to the residual
 // before the next is opened).
 type PlanCylinderResult struct {
-	Order        int               `json:"order"`
-	Supply       int               `json:"supply"`
-	Copy         int               `json:"copy"`
-	Name         string            `json:"name"`
-	UsableL      Number            `json:"usable_l"`
-	StartMinute  *Number           `json:"start_minute"`
-	ChangeMinute *Number           `json:"change_minute"`
-	ChangeLeg    *int              `json:"change_leg"`
-	Explain      map[string]Figure `json:"explain"`
+	Order        int         `json:"order"`
+	Supply       int         `json:"supply"`
+	Copy         int         `json:"copy"`
+	Name         string      `json:"name"`
+	UsableL      Number      `json:"usable_l"`
+	StartMinute  *Number     `json:"start_minute"`
+	ChangeMinute *Number     `json:"change_minute"`
+	ChangeLeg    *int        `json:"change_leg"`
+	Explain      Explanation `json:"explain"`
 }
 
 // PlanTrappedGasResult is Boyle's-law expansion from the origin to the
 // highest altitude, with two worked examples.
 type PlanTrappedGasResult struct {
-	FromAltitudeFt         Number            `json:"from_altitude_ft"`
-	ToAltitudeFt           Number            `json:"to_altitude_ft"`
-	Ratio                  Number            `json:"ratio"`
-	CuffMl                 Number            `json:"cuff_ml"`
-	CuffAtAltitudeMl       Number            `json:"cuff_at_altitude_ml"`
-	PneumothoraxMl         Number            `json:"pneumothorax_ml"`
-	PneumothoraxAltitudeMl Number            `json:"pneumothorax_at_altitude_ml"`
-	RigidOverpressureCmH2O Number            `json:"rigid_overpressure_cmh2o"`
-	Caution                string            `json:"caution"`
-	Explain                map[string]Figure `json:"explain"`
+	FromAltitudeFt         Number      `json:"from_altitude_ft"`
+	ToAltitudeFt           Number      `json:"to_altitude_ft"`
+	Ratio                  Number      `json:"ratio"`
+	CuffMl                 Number      `json:"cuff_ml"`
+	CuffAtAltitudeMl       Number      `json:"cuff_at_altitude_ml"`
+	PneumothoraxMl         Number      `json:"pneumothorax_ml"`
+	PneumothoraxAltitudeMl Number      `json:"pneumothorax_at_altitude_ml"`
+	RigidOverpressureCmH2O Number      `json:"rigid_overpressure_cmh2o"`
+	Caution                string      `json:"caution"`
+	Explain                Explanation `json:"explain"`
 }

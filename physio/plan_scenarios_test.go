@@ -136,8 +136,8 @@ func TestPlanStatedCabinOverridesPressurised(t *testing.T) {
  "patient": {"fio2": 0.21, "pao2_mmhg": 90}, "supply": []}`)
 	exact(t, "cabin_altitude_ft", *r.CabinAltitudeFt, "6000")
 	nearly(t, "cabin pressure", r.Legs[0].PressureMmHg, 609.05, 0.051)
-	if r.Explain["cabin_altitude_ft"].Source != srcPilot || !r.Pressurised || r.MaxCruiseAltitudeFt == nil {
-		t.Errorf("stated cabin: source %q, pressurised %v", r.Explain["cabin_altitude_ft"].Source, r.Pressurised)
+	if cabin, _ := r.Explain.Get("cabin_altitude_ft"); cabin.Source != srcPilot || !r.Pressurised || r.MaxCruiseAltitudeFt == nil {
+		t.Errorf("stated cabin: source %q, pressurised %v", cabin.Source, r.Pressurised)
 	}
 	// FiO2 0.21·(760 − 47)/(609.05 − 47) = 0.2664 → 0.27; room air
 	// falls short, so options are offered.

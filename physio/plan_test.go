@@ -108,13 +108,16 @@ func TestPlanSeaLevelTo8000ft(t *testing.T) {
 	// Every number has its explanation.
 	for _, k := range []string{"cabin_altitude_ft", "highest_altitude_ft", "fio2_needed", "max_cabin_altitude_ft",
 		"oxygen_needed_l", "oxygen_usable_l", "oxygen_margin_l", "gas_expansion_ratio"} {
-		f, ok := r.Explain[k]
+		f, ok := r.Explain.Get(k)
 		if !ok || f.Formula == "" || f.Source == "" || f.Rounding == "" {
 			t.Errorf("explain[%q] = %+v, want formula, source and rounding", k, f)
 		}
 	}
-	if r.Explain["fio2_needed"].Rounding != "up" || r.Explain["oxygen_usable_l"].Rounding != "down" {
-		t.Error("fio2_needed must round up and oxygen_usable_l down")
+	if fio2, _ := r.Explain.Get("fio2_needed"); fio2.Rounding != "up" {
+		t.Error("fio2_needed must round up")
+	}
+	if usable, _ := r.Explain.Get("oxygen_usable_l"); usable.Rounding != "down" {
+		t.Error("oxygen_usable_l must round down")
 	}
 }
 

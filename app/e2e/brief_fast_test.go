@@ -105,8 +105,8 @@ type shownPanel struct {
 // figure in physio's result (absent: the plan has none, so it is hidden).
 func expectedFigs(r *physio.PlanResult) map[string]*physio.Figure {
 	out := map[string]*physio.Figure{}
-	put := func(id string, explain map[string]physio.Figure, key string) {
-		if f, ok := explain[key]; ok {
+	put := func(id string, explain physio.Explanation, key string) {
+		if f, ok := explain.Get(key); ok {
 			out[id] = &f
 		} else {
 			out[id] = nil
@@ -303,7 +303,8 @@ func TestBriefDirectPathStaysTrue(t *testing.T) {
 	}
 	want, _ := physio.ComputePlan(doc)
 	how := b.text("#b-r-leg1-litres-how .b-how")
-	for _, in := range want.Legs[1].Explain["oxygen_l"].Inputs {
+	oxygenL, _ := want.Legs[1].Explain.Get("oxygen_l")
+	for _, in := range oxygenL.Inputs {
 		if v := strconv.FormatFloat(in.Value, 'f', -1, 64); !strings.Contains(how, in.Name+" = "+v) {
 			t.Errorf("How of leg 2's oxygen %q lacks %s = %s (physio's input)", how, in.Name, v)
 		}

@@ -142,7 +142,7 @@ func TestBriefFullPlan(t *testing.T) {
 	b.tap("#b-r-cabin-how > summary")
 	b.waitExists("#b-r-cabin-how .b-how")
 	how := b.text("#b-r-cabin-how .b-how")
-	f := want.Explain["cabin_altitude_ft"]
+	f, _ := want.Explain.Get("cabin_altitude_ft")
 	for _, part := range []string{f.Formula, f.Source, "up, the safe side", "cruise altitude = 25000 ft", "max differential = 6.5 psi"} {
 		if !strings.Contains(how, part) {
 			t.Errorf("How of the cabin altitude %q lacks %q", how, part)

@@ -227,8 +227,8 @@ type partFig struct {
 }
 
 // explained is the figure key of explain as a partFig, gone when absent.
-func explained(id, label string, explain map[string]physio.Figure, key string) partFig {
-	f, ok := explain[key]
+func explained(id, label string, explain physio.Explanation, key string) partFig {
+	f, ok := explain.Get(key)
 	return partFig{id: id, label: label, f: f, gone: !ok}
 }
 
