@@ -71,15 +71,29 @@ func (b *browser) unlock(pass string) {
 // timeline.
 func (b *browser) startTransport(vehicle, origin, dest string) {
 	b.t.Helper()
+	b.startTransportWith(lbStart{vehicle: vehicle, crew: "ab cd", origin: origin, originElev: "1200", dest: dest, destElev: "10", weight: "72"})
+}
+
+// lbStart is a start of transport as typed into the form; a blank field is
+// left as the form has it (openedAt blank: opened now).
+type lbStart struct {
+	vehicle, crew, origin, originElev, dest, destElev, weight, openedAt string
+}
+
+// startTransportWith opens the start form, types s into it, sends it and
+// waits for the new transport's timeline.
+func (b *browser) startTransportWith(s lbStart) {
+	b.t.Helper()
 	b.tap("#lb-nav-start")
 	b.waitLB("the start form", `document.querySelector("#lb-start") !== null`, 10*time.Second)
-	b.typeInto("#lb-vehicle", vehicle)
-	b.typeInto("#lb-crew", "ab cd")
-	b.typeInto("#lb-origin", origin)
-	b.typeInto("#lb-origin-elev", "1200")
-	b.typeInto("#lb-dest", dest)
-	b.typeInto("#lb-dest-elev", "10")
-	b.typeInto("#lb-weight", "72")
+	for _, f := range []struct{ sel, text string }{
+		{"#lb-vehicle", s.vehicle}, {"#lb-crew", s.crew}, {"#lb-origin", s.origin}, {"#lb-origin-elev", s.originElev},
+		{"#lb-dest", s.dest}, {"#lb-dest-elev", s.destElev}, {"#lb-weight", s.weight}, {"#lb-start-at", s.openedAt},
+	} {
+		if f.text != "" {
+			b.typeInto(f.sel, f.text)
+		}
+	}
 	b.tap("#lb-start-go")
 	b.waitLB("the transport timeline", `document.querySelector("#lb-timeline li[data-seq]") !== null`, 20*time.Second)
 }

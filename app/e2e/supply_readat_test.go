@@ -44,17 +44,8 @@ func TestSupplyReadAtInBrowser(t *testing.T) {
 	b.createVault(testPass)
 
 	opened := time.Now().In(zone).Add(-30 * time.Minute)
-	b.tap("#lb-nav-start")
-	b.waitLB("the start form", `document.querySelector("#lb-start") !== null`, 10*time.Second)
-	b.typeInto("#lb-vehicle", "Twin turboprop")
-	b.typeInto("#lb-crew", "ef gh")
-	b.typeInto("#lb-origin", "Harbour field")
-	b.typeInto("#lb-origin-elev", "20")
-	b.typeInto("#lb-dest", "Ridge clinic")
-	b.typeInto("#lb-dest-elev", "1900")
-	b.typeInto("#lb-start-at", opened.Format("15:04"))
-	b.tap("#lb-start-go")
-	b.waitLB("the transport timeline", `document.querySelector("#lb-timeline li[data-seq]") !== null`, 20*time.Second)
+	b.startTransportWith(lbStart{vehicle: "Twin turboprop", crew: "ef gh", origin: "Harbour field", originElev: "20",
+		dest: "Ridge clinic", destElev: "1900", openedAt: opened.Format("15:04")})
 
 	b.tap("#tab-supply")
 	b.waitFor("the open transport on Supply", `document.querySelector("#supply-log-open") !== null`, 20*time.Second)
