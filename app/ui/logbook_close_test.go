@@ -31,20 +31,6 @@ func closeTestTransport(t *testing.T) (*logbookScreen, *vaultSession, func(hh, m
 	return l, s, set, e.ConsumeAll
 }
 
-// storedTransport reads the transport as the vault holds it.
-func storedTransport(t *testing.T, s *vaultSession, id logbook.TransportID) *logbook.Transport {
-	t.Helper()
-	v, err := s.Vault()
-	if err != nil {
-		t.Fatal(err)
-	}
-	tr, err := v.Transport(context.Background(), id)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return tr
-}
-
 // A close is the transport's last entry (the late-entry rule, DEVELOPERS.md:
 // the timeline is a course of events ordered by the times entries carry).
 // A close typed for 10:00, or for 10:20, with a landing already recorded at
@@ -70,7 +56,7 @@ func TestLogbookCloseBeforeLatestEntry(t *testing.T) {
 		if r.atMsg == "" || r.atText != typed || r.outcome != "handed over" {
 			t.Errorf("a close at %s refused: time field %q (message %q), outcome %q; want both kept and the reason by the time", typed, r.atText, r.atMsg, r.outcome)
 		}
-		if tr := storedTransport(t, s, r.id); len(tr.History) != 2 || !tr.Closed.IsZero() {
+		if tr := transportOf(t, s, r.id); len(tr.History) != 2 || !tr.Closed.IsZero() {
 			t.Fatalf("a close at %s before the landing: the vault holds %d records, closed %v", typed, len(tr.History), tr.Closed)
 		}
 		if page := lbHTML(l); !strings.Contains(page, `id="lb-close"`) || !strings.Contains(page, `id="lb-at-msg"`) {
@@ -82,7 +68,7 @@ func TestLogbookCloseBeforeLatestEntry(t *testing.T) {
 	l.problem = ""
 	l.saveClose(l.mctx, noEvent)
 	consume()
-	tr := storedTransport(t, s, r.id)
+	tr := transportOf(t, s, r.id)
 	if want := time.Date(2031, 3, 14, 10, 21, 0, 0, time.Local); l.problem != "" || !tr.Closed.Equal(want) {
 		t.Fatalf("a close at 10:21: closed %v (want %v), problem %q", tr.Closed, want, l.problem)
 	}
@@ -99,14 +85,14 @@ func TestLogbookCloseBeforeLatestEntry(t *testing.T) {
 	if !strings.Contains(l.problem, "closed at 2031-03-14 10:21") || !strings.Contains(l.problem, "takes no new entry") || r.noteText != "a note after the close" {
 		t.Errorf("a note after the close: problem %q, note field %q", l.problem, r.noteText)
 	}
-	if n := len(storedTransport(t, s, r.id).History); n != 3 {
+	if n := len(transportOf(t, s, r.id).History); n != 3 {
 		t.Errorf("a note after the close was saved: %d records", n)
 	}
 	r.amendSeq, r.amendReason, r.amendVoid = 2, "landing tapped by mistake", true
 	l.problem = ""
 	l.saveAmend(l.mctx, noEvent)
 	consume()
-	tr = storedTransport(t, s, r.id)
+	tr = transportOf(t, s, r.id)
 	if l.problem != "" || len(tr.Amendments) != 1 || !tr.Amendments[0].AfterClose {
 		t.Errorf("a correction after the close: problem %q, amendments %+v; want one, flagged after the close", l.problem, tr.Amendments)
 	}
@@ -138,7 +124,7 @@ func TestLogbookCloseBoundIsTheLatestEntry(t *testing.T) {
 	if !strings.Contains(l.problem, "R3") || !strings.Contains(l.problem, "10:25:00") || r.atMsg == "" || r.atText != "10:22" {
 		t.Errorf("a close at 10:22 with a reading at 10:25 saved elsewhere: problem %q, field %q (%q)", l.problem, r.atText, r.atMsg)
 	}
-	if tr := storedTransport(t, s, r.id); !tr.Closed.IsZero() || len(tr.History) != 3 {
+	if tr := transportOf(t, s, r.id); !tr.Closed.IsZero() || len(tr.History) != 3 {
 		t.Fatalf("the close at 10:22 was saved: %d records, closed %v", len(tr.History), tr.Closed)
 	}
 
@@ -169,7 +155,7 @@ func TestLogbookCloseBoundIsTheLatestEntry(t *testing.T) {
 	r.atText, l.problem = "10:10", ""
 	l.saveClose(l.mctx, noEvent)
 	consume()
-	if tr := storedTransport(t, s, r.id); l.problem != "" || !tr.Closed.Equal(time.Date(2031, 3, 14, 10, 10, 0, 0, time.Local)) {
+	if tr := transportOf(t, s, r.id); l.problem != "" || !tr.Closed.Equal(time.Date(2031, 3, 14, 10, 10, 0, 0, time.Local)) {
 		t.Errorf("a close at 10:10 after the later entries were withdrawn: problem %q, closed %v", l.problem, tr.Closed)
 	}
 }
