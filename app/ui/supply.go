@@ -274,7 +274,8 @@ func (s *supply) residual() (physio.Pressure, time.Duration, string) {
 // readingMerge of the last reading (same cylinder), any of the three
 // corrects it; later, a gauge or flow starts a new reading, timed as it is
 // typed unless a time was given for it, and a Read at waits for the next
-// reading (it cannot move one typed a while ago).
+// reading (it can re-time the reading shown with a tap when it is earlier
+// than that reading's time: retimeShown).
 func (s *supply) edit(ctx app.Context, field, text string) {
 	switch field {
 	case FieldSupplyGauge:
@@ -329,7 +330,10 @@ func (s *supply) commit(ctx app.Context, timeEdit bool) bool {
 		// A new reading: the time given for an older one is not its time.
 		s.readAtText, s.readAtFor = "", 0
 	}
-	read, given, msg := s.readTime(now, in, merge)
+	// A waiting time is held to the readings before the one shown: earlier
+	// than that one, it may be for the next cylinder's first reading, or
+	// re-time the reading shown (renderReadAtNext offers it).
+	read, given, msg := s.readTime(now, in, merge || waits)
 	if msg != "" {
 		s.messages[FieldSupplyReadAt] = msg
 	}
@@ -556,18 +560,60 @@ func (s *supply) readAtNote() string {
 	}
 	return "Kept on this device as you type. Read at is when the gauge was read, if not just now (" + bounds +
 		"): the countdown counts from it, and the logbook takes it for this reading and for a change to this cylinder. " +
-		"Within a minute of typing a reading, a change to any of these fields corrects it; after that, a new gauge or flow is a new reading, timed now unless you give its time."
+		"Within a minute of typing a reading, a change to any of these fields corrects it; after that, a new gauge or flow is a new reading, timed now unless you give its time, and a Read at waits for the next reading (or, earlier than the reading shown, can re-time it with its button)."
 }
 
 // renderReadAtNext says that a time typed after the correction window is
-// kept for the next reading, not given to the one shown.
+// kept for the next reading, not given to the one shown; when the time is
+// earlier than the reading shown, a button re-times that reading instead
+// (retimeShown).
 func (s *supply) renderReadAtNext() app.UI {
 	text := strings.TrimSpace(s.readAtText)
 	_, shown := s.session.lastReading()
 	return app.If(text != "" && s.readAtFor == 0 && shown && s.messages[FieldSupplyReadAt] == "", func() app.UI {
-		return app.P().ID("supply-read-at-next").Class("alv-note").Attr("role", "status").
+		note := app.P().ID("supply-read-at-next").Class("alv-note").Attr("role", "status").
 			Text("Read at " + text + " is kept for the next reading (the one shown was typed more than a minute ago, and keeps its time): type its gauge or flow, or choose the cylinder.")
+		at, ok := s.retimeTo()
+		if !ok {
+			return note
+		}
+		return app.Div().Body(note,
+			app.Button().ID("supply-read-at-retime").Type("button").Class("alv-button").
+				Text("Or: the reading shown was read at "+lbClockMinute(at)+" (re-time it; less time left)").
+				OnClick(s.retimeShown))
 	})
+}
+
+// retimeTo returns the time Read at gives when the reading shown could
+// take it instead of waiting for the next: valid by readTime's rule
+// against the readings before it, and earlier than the reading's time
+// (the safe side: it leaves less time, never more).
+func (s *supply) retimeTo() (time.Time, bool) {
+	last, ok := s.session.lastReading()
+	if !ok || last.Cylinder != s.session.InUse {
+		return time.Time{}, false
+	}
+	at, given, msg := s.readTime(s.now(), last.Cylinder, true)
+	if msg != "" || !given || !at.Before(last.At()) {
+		return time.Time{}, false
+	}
+	return at, true
+}
+
+// retimeShown gives the reading shown the earlier time Read at holds: its
+// gauge was read before it was typed, and the crew says so after the
+// correction window. The countdown counts from it; a reading already in
+// the logbook is corrected there at the next save.
+func (s *supply) retimeShown(ctx app.Context, e app.Event) {
+	at, ok := s.retimeTo()
+	if !ok {
+		return
+	}
+	s.session.retimeLast(at)
+	last, _ := s.session.lastReading()
+	s.readAtFor, s.shown = last.AtUnixMilli, s.now()
+	s.link.status, s.link.problem = "", ""
+	saveSupplySession(ctx, s.session)
 }
 
 func (s *supply) renderCountdown(cd countdown, msg string) app.UI {

@@ -236,3 +236,52 @@ func TestSupplyClosedSinceRead(t *testing.T) {
 		t.Errorf("the reading on Supply is %+v", r)
 	}
 }
+
+// A Read at typed after the correction window waits for the next reading;
+// when it is earlier than the reading shown (the gauge was read before it
+// was typed, and the crew noticed late), a button re-times that reading
+// instead: the countdown counts from the earlier time (less time left, the
+// safe side), and the logbook, which had the reading at its typing time,
+// gets a correction at the earlier time. A later time gives no such button
+// (it would leave more time). Check values: REFERENCES §7 [calc], an E
+// cylinder at 1500 psi, residual 200 psi, 10 L/min lasts (1500 − 200) ×
+// 0.28 ÷ 10 = 36.4 min; read at 09:02 and seen at 09:15, 23 min are left
+// (rounded down) and the change is due at 09:38 (09:02 + 36.4, truncated).
+func TestSupplyRetimeShownReading(t *testing.T) {
+	s, sess, ctx, e, id, clock := supplyLateSetup(t, logbook.NewMemStore())
+	typeReading(s, ctx, [2]string{FieldSupplyGauge, "1500"}, [2]string{FieldSupplyFlow, "10"}) // typed 09:12
+	s.logReading(ctx)
+	e.ConsumeAll()
+	if tr := transportOf(t, sess, id); len(tr.Gauges) != 1 || !tr.Gauges[0].At.Equal(at0506(9, 12)) {
+		t.Fatalf("the reading was not saved at 09:12: %+v (problem %q)", tr.Gauges, s.link.problem)
+	}
+
+	*clock = at0506(9, 15)
+	s.edit(ctx, FieldSupplyReadAt, "09:13") // later than the reading: waits, no button
+	if page := rendered(t, s); !strings.Contains(page, `id="supply-read-at-next"`) || strings.Contains(page, `id="supply-read-at-retime"`) {
+		t.Fatalf("a later Read at: the waiting note or a re-time button is wrong:\n%s", htmlText(page, "supply-read-at-next"))
+	}
+	s.edit(ctx, FieldSupplyReadAt, "09:02")
+	if got := htmlText(rendered(t, s), "supply-read-at-retime"); !strings.Contains(got, "read at 09:02") {
+		t.Fatalf("no button to re-time the reading shown to 09:02: %q", got)
+	}
+	if r, _ := s.session.lastReading(); r.ReadGiven() {
+		t.Fatalf("the reading was re-timed before the tap: %+v", r)
+	}
+	s.retimeShown(ctx, noEvent)
+	if r, _ := s.session.lastReading(); len(s.session.Readings) != 1 || !r.At().Equal(at0506(9, 2)) || r.Log != nil || r.Corrects == nil {
+		t.Fatalf("after the tap: %+v", s.session.Readings)
+	}
+	if got := countdownShown(t, s); got["supply-minutes"] != "23" || got["supply-change-at"] != "09:38" {
+		t.Errorf("the countdown from 09:02 at 09:15: %v, want 23 min and change at 09:38", got)
+	}
+	if page := rendered(t, s); strings.Contains(page, `id="supply-read-at-next"`) || strings.Contains(page, `id="supply-read-at-retime"`) {
+		t.Error("the time given to the reading shown is still said to wait")
+	}
+	s.logReading(ctx)
+	e.ConsumeAll()
+	tr := transportOf(t, sess, id)
+	if len(tr.Amendments) != 1 || len(tr.Gauges) != 1 || !tr.Gauges[0].At.Equal(at0506(9, 2)) {
+		t.Fatalf("the logbook's reading is not corrected to 09:02: gauges %+v, %d amendments (problem %q)", tr.Gauges, len(tr.Amendments), s.link.problem)
+	}
+}

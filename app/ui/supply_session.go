@@ -166,6 +166,23 @@ func (s SupplySession) previousOf(cylinder int, skipLast bool) (SupplyReading, b
 	return prev, found
 }
 
+// retimeLast gives the last reading the earlier time read: its gauge was
+// read before it was typed, and the crew says so after the correction
+// window. A reading already saved to the Logbook is then to be corrected
+// there, as a correction within the window is (record).
+func (s *SupplySession) retimeLast(read time.Time) {
+	n := len(s.Readings)
+	if n == 0 {
+		return
+	}
+	r := s.Readings[n-1]
+	r.ReadUnixMilli = read.UnixMilli()
+	if r.Log != nil {
+		r.Corrects, r.Log = r.Log, nil
+	}
+	s.Readings[n-1] = r
+}
+
 // record adds r, or replaces the last reading when it merges (a
 // correction). A correction of a reading saved to the Logbook remembers
 // that record, so that saving it corrects the record instead of adding a
