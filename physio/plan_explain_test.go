@@ -93,3 +93,42 @@ func TestExplanationArenaRooms(t *testing.T) {
 		t.Error("a zero Explanation has figures")
 	}
 }
+
+// An explain object read from anywhere (a bundle's Brief snapshot comes
+// from another tablet) either is refused or reads back to the same JSON it
+// writes, as a map of the same figures would.
+func FuzzExplanationJSON(f *testing.F) {
+	f.Add([]byte(`{"a":{"value":1.5,"unit":"L","formula":"x < y & z","rounding":"up"},"B":{"value":-2,"inputs":[{"name":"PB","value":760,"unit":"mmHg"}]}}`))
+	f.Add([]byte(`null`))
+	f.Add([]byte(`{}`))
+	f.Add([]byte(`{"a":1}`))
+	f.Add([]byte(`[]`))
+	f.Fuzz(func(t *testing.T, b []byte) {
+		var e Explanation
+		if err := json.Unmarshal(b, &e); err != nil {
+			return
+		}
+		var m map[string]Figure
+		if err := json.Unmarshal(b, &m); err != nil {
+			t.Fatalf("read as an Explanation but not as a map: %v", err)
+		}
+		got, err := json.Marshal(e)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, err := json.Marshal(m)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(got, want) {
+			t.Fatalf("written as\n%s\nbut a map writes\n%s", got, want)
+		}
+		var again Explanation
+		if err := json.Unmarshal(got, &again); err != nil {
+			t.Fatal(err)
+		}
+		if back, _ := json.Marshal(again); !bytes.Equal(back, got) {
+			t.Fatalf("not stable: %s then %s", got, back)
+		}
+	})
+}
