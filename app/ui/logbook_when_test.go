@@ -229,3 +229,56 @@ func TestLogbookStartOpenedAt(t *testing.T) {
 		t.Errorf("an entry before the opening: problem %q, %d records", l.problem, len(l.record.transport.History))
 	}
 }
+
+// Whatever is typed into a time control, lbEntryTime never panics, and a
+// time it accepts is at or before now, at most 24 h back, not before the
+// opening, on the whole minute, and shows on the clock as what was typed
+// (hh:mm, a leading zero optional). Blank is now. Refusals name the field.
+// Zones: a fixed one, and one with summer time when the system has it.
+func FuzzLbEntryTime(f *testing.F) {
+	zones := []*time.Location{time.FixedZone("UTC+05:45", 5*3600+45*60)}
+	if z, err := time.LoadLocation("Europe/Berlin"); err == nil {
+		zones = append(zones, z)
+	}
+	base := time.Date(2031, 3, 30, 0, 0, 0, 0, time.UTC).Unix() // a day summer time begins in Europe
+	f.Add("02:30", int64(3*3600), int64(0), uint8(1))
+	f.Add("23:50", int64(600), int64(3600), uint8(0))
+	f.Add(" 9:05 ", int64(86400), int64(-86400), uint8(1))
+	f.Add("24:00", int64(0), int64(0), uint8(0))
+	f.Add("", int64(0), int64(0), uint8(0))
+	f.Fuzz(func(t *testing.T, text string, nowOff, openedOff int64, zone uint8) {
+		loc := zones[int(zone)%len(zones)]
+		now := time.Unix(base+nowOff%(400*86400), 0).In(loc)
+		var opened time.Time
+		if openedOff != 0 {
+			opened = now.Add(-time.Duration(openedOff%(3*86400)) * time.Second)
+		}
+		at, given, err := lbEntryTime("Time of the entry", text, now, opened)
+		if err != nil {
+			if given || !strings.HasPrefix(err.Error(), "Time of the entry: ") {
+				t.Fatalf("%q: refused with given=%v, %q", text, given, err)
+			}
+			return
+		}
+		if !given {
+			if strings.TrimSpace(text) != "" {
+				t.Fatalf("%q: taken as blank", text)
+			}
+			return
+		}
+		h, m, ok := lbParseClock(strings.TrimSpace(text))
+		switch {
+		case !ok:
+			t.Fatalf("%q: accepted though not a clock time", text)
+		case at.After(now) || now.Sub(at) > lbLookBack:
+			t.Fatalf("%q at %v: %v is not within the last 24 h", text, now, at)
+		case !opened.IsZero() && at.Before(opened):
+			t.Fatalf("%q: %v is before the opening %v", text, at, opened)
+		case at.Second() != 0 || at.Nanosecond() != 0:
+			t.Fatalf("%q: %v is not on the minute", text, at)
+		}
+		if local := at.In(loc); local.Hour() != h || local.Minute() != m {
+			t.Fatalf("%q: resolved to %v, which the clock shows otherwise", text, local)
+		}
+	})
+}
