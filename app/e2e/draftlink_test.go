@@ -83,6 +83,15 @@ func (b *browser) openBlank(srv *testServer) {
 	b.must("navigate to a plain file", chromedp.Navigate(srv.URL("/web/icon.svg")))
 }
 
+// seedDraft stores a Brief draft and its patient block in the app's origin
+// before any page of the app runs (from a plain file of that origin).
+func (b *browser) seedDraft(srv *testServer, draft, patient any) {
+	b.t.Helper()
+	b.openBlank(srv)
+	b.seedStorage(draftStorageKey, draft)
+	b.seedStorage(draftPatientStorageKey, patient)
+}
+
 // seedStorage writes key = JSON of v into the page's localStorage.
 func (b *browser) seedStorage(key string, v any) {
 	b.t.Helper()
@@ -308,9 +317,7 @@ func TestAltitudeAdoptsBriefDraft(t *testing.T) {
 	}
 	srv := startApp(t, repoRoot)
 	b := newBrowser(t, t.TempDir())
-	b.openBlank(srv)
-	b.seedStorage(draftStorageKey, draft)
-	b.seedStorage(draftPatientStorageKey, patient)
+	b.seedDraft(srv, draft, patient)
 	b.open(srv.URL("/")) // the Brief loads the draft (and takes the patient block in)
 	b.tap("#tab-altitude")
 	b.waitFor("the route from the draft", `document.querySelector("#alt-cruise")?.value === "27000"`, 10*time.Second)

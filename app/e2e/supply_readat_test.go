@@ -37,9 +37,7 @@ func TestSupplyReadAtInBrowser(t *testing.T) {
 		t.Fatalf("time zone override: %v", err)
 	}
 	zone := time.FixedZone("UTC+05:45", 5*3600+45*60)
-	b.openBlank(srv)
-	b.seedStorage(draftStorageKey, draft)
-	b.seedStorage(draftPatientStorageKey, patient)
+	b.seedDraft(srv, draft, patient)
 	b.openLogbook(srv.URL("/logbook"))
 	b.createVault(testPass)
 

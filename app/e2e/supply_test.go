@@ -148,9 +148,7 @@ func TestSupplyReadingInLogbook(t *testing.T) {
 	draft, patient, _ := altitudeDraftScenario() // two E cylinders at 2000 psi
 	srv := startApp(t, repoRoot)
 	b := newBrowser(t, t.TempDir())
-	b.openBlank(srv)
-	b.seedStorage(draftStorageKey, draft)
-	b.seedStorage(draftPatientStorageKey, patient)
+	b.seedDraft(srv, draft, patient)
 	b.openLogbook(srv.URL("/logbook"))
 	b.createVault(testPass)
 	b.startTransport("Twin turboprop", "Harbour field", "Ridge clinic")
