@@ -49,6 +49,17 @@ type Transport struct {
 	Amendments   []Amendment
 	History      []*Entry  // every readable record of the transport, in order
 	Problems     []Problem // records of this transport that could not be read
+
+	latestSeq uint64    // the record carrying the latest time (Latest)
+	latestAt  time.Time // its time, as folded
+}
+
+// Latest returns the record that carries the latest time of the folded
+// transport, and that time: a corrected record at its correction's time, a
+// withdrawn one left out, the later record on a tie. ok is false when no
+// record is left.
+func (t *Transport) Latest() (seq uint64, at time.Time, ok bool) {
+	return t.latestSeq, t.latestAt, t.latestSeq != 0
 }
 
 // Transport reads every record of transport id and folds them. Unreadable
@@ -137,6 +148,9 @@ func (t *Transport) fold() {
 			continue
 		}
 		e := current[seq]
+		if t.latestSeq == 0 || !e.At.Before(t.latestAt) {
+			t.latestSeq, t.latestAt = seq, e.At
+		}
 		by := amendedBy[seq]
 		switch e.Kind {
 		case KindOpen:

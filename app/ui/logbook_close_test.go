@@ -137,7 +137,7 @@ func TestLogbookCloseBoundIsTheLatestEntry(t *testing.T) {
 		l.saveAmend(l.mctx, noEvent)
 		consume()
 	}
-	if _, at, _ := lbLatestEntry(r.transport); !at.Equal(time.Date(2031, 3, 14, 10, 0, 0, 0, time.Local)) {
+	if _, at, _ := r.transport.Latest(); !at.Equal(time.Date(2031, 3, 14, 10, 0, 0, 0, time.Local)) {
 		t.Fatalf("latest entry after withdrawing R2 and R3: %v, want the opening 10:00:00", at)
 	}
 

@@ -129,47 +129,13 @@ type lbRefusal struct {
 
 func (r *lbRefusal) Error() string { return r.text }
 
-// lbLatestEntry returns the record number and time of the record of t
-// that carries the latest time, as the timeline reads it: a correction
-// that replaces a record gives it its own time, one that withdraws it
-// takes it out (as logbook's fold does). ok is false when t has no such
-// record.
-func lbLatestEntry(t *logbook.Transport) (seq uint64, at time.Time, ok bool) {
-	current := map[uint64]time.Time{}
-	withdrawn := map[uint64]bool{}
-	var order []uint64
-	for _, e := range t.History {
-		if e.Kind != logbook.KindAmend {
-			current[e.Seq] = e.At
-			order = append(order, e.Seq)
-			continue
-		}
-		if _, known := current[e.Amends]; !known {
-			continue
-		}
-		withdrawn[e.Amends] = e.Void
-		if !e.Void {
-			current[e.Amends] = e.At
-		}
-	}
-	for _, s := range order {
-		if withdrawn[s] {
-			continue
-		}
-		if a := current[s]; !ok || !a.Before(at) {
-			seq, at, ok = s, a, true
-		}
-	}
-	return seq, at, ok
-}
-
 // lbCloseRefusal returns why a close timed at (given: typed in the time
 // control named field; otherwise the tablet's clock) cannot close t, or
 // "". A close is the transport's last entry: at must not be before the
-// latest entry t holds (lbLatestEntry), so that the timeline, ordered by
+// latest entry t holds (Transport.Latest), so that the timeline, ordered by
 // time, ends with it and the audit's "after the close" means what it says.
 func lbCloseRefusal(field string, at time.Time, given bool, t *logbook.Transport) string {
-	seq, latest, ok := lbLatestEntry(t)
+	seq, latest, ok := t.Latest()
 	if !ok || !at.Before(latest) {
 		return ""
 	}
