@@ -60,10 +60,19 @@ func lbEntryTime(field, text string, now, opened time.Time) (time.Time, bool, er
 	if now.Sub(at) > lbLookBack {
 		return time.Time{}, false, fmt.Errorf("%s: %s would be %s, more than 24 h ago. Give a time within the last 24 hours as hh:mm (24-hour), or leave it blank for now.", field, text, lbDayMinute(at))
 	}
-	if !opened.IsZero() && at.Before(opened) {
-		return time.Time{}, false, fmt.Errorf("%s: %s (%s) is before the transport opened (%s). Give a time from the opening to now as hh:mm (24-hour), or leave it blank for now.", field, text, lbDayMinute(at), lbDayMinute(opened)+":"+opened.Local().Format("05"))
+	if err := lbBeforeOpening(field, text, at, opened); err != nil {
+		return time.Time{}, false, err
 	}
 	return at, true, nil
+}
+
+// lbBeforeOpening refuses a time at (typed as text in the control named
+// field) before the transport opened (zero opened: no bound).
+func lbBeforeOpening(field, text string, at, opened time.Time) error {
+	if opened.IsZero() || !at.Before(opened) {
+		return nil
+	}
+	return fmt.Errorf("%s: %s (%s) is before the transport opened (%s). Give a time from the opening to now as hh:mm (24-hour), or leave it blank for now.", field, text, lbDayMinute(at), lbDayMinute(opened)+":"+opened.Local().Format("05"))
 }
 
 // lbParseClock reads "h:mm" or "hh:mm", hours 0–23, minutes 00–59.

@@ -194,11 +194,9 @@ func (s *supply) logReading(ctx app.Context) {
 	at, given := r.At(), r.ReadGiven()
 	if given {
 		// The transport may have opened after the reading was typed here:
-		// its opening bounds a reading saved to it, as in the Logbook. The
-		// given time is a whole minute, so lbEntryTime, asked for that
-		// clock time at that moment, resolves it to itself and applies
-		// the Logbook's bound with its own sentence.
-		if _, _, err := lbEntryTime(supplyReadAtField, lbClockMinute(at), at, t.Opened); err != nil {
+		// its opening bounds a reading saved to it, with the Logbook's
+		// sentence.
+		if err := lbBeforeOpening(supplyReadAtField, lbClockMinute(at), at, t.Opened); err != nil {
 			s.link.problem = err.Error() + " Nothing was saved to the logbook; the reading is kept on this tablet."
 			return
 		}
@@ -238,10 +236,6 @@ func (s *supply) logCylinderChange(ctx app.Context, i int, at time.Time, given b
 		return
 	}
 	s.link.change = supplyChange{transport: t.ID, cylinder: i, at: at, given: given}
-	if at.IsZero() {
-		s.link.problem = "The cylinder change was not saved to the logbook: its time is the new cylinder's Read at, which is refused. Correct it, then save the change with the button."
-		return
-	}
 	s.saveChange(ctx)
 }
 
@@ -269,7 +263,7 @@ func (s *supply) saveChange(ctx app.Context) {
 		return
 	}
 	if given {
-		if _, _, err := lbEntryTime(supplyReadAtField, lbClockMinute(at), at, t.Opened); err != nil {
+		if err := lbBeforeOpening(supplyReadAtField, lbClockMinute(at), at, t.Opened); err != nil {
 			s.link.problem = err.Error() + " The cylinder change was not saved to the logbook."
 			return
 		}
