@@ -41,7 +41,9 @@ options:
                           (otherwise: asked on the terminal without echo, or
                           one line read from standard input)
   --csv FILE              write the table as CSV (no identifying columns
-                          unless --csv-include names them)
+                          unless --csv-include names them; a text cell
+                          starting with = + - @ is written with a leading '
+                          so that a spreadsheet shows it as text)
   --csv-include LIST      identifying columns to add: id,date,route,crew,patient
   --json FILE             write the whole audit as JSON
   --from DATE             transports opened on or after DATE (YYYY-MM-DD, UTC)

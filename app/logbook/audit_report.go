@@ -309,7 +309,9 @@ var IdentifyingColumns = []string{ColumnID, ColumnDate, ColumnRoute, ColumnCrew,
 // the oxygen figures, the deviation counts and what was not computable.
 // include names identifying columns to add (IdentifyingColumns); an
 // unknown name is a *FieldError. A value that is not computable is an empty
-// cell, with its reason in the not_computable column.
+// cell, with its reason in the not_computable column. A text cell that a
+// spreadsheet would read as a formula is written with a leading apostrophe
+// (csvText); numbers are written as they are.
 func (r *AuditReport) WriteCSV(w io.Writer, include []string) error {
 	want := map[string]bool{}
 	for _, c := range include {
@@ -348,29 +350,41 @@ func (r *AuditReport) WriteCSV(w io.Writer, include []string) error {
 			}
 			switch c {
 			case ColumnID:
-				row = append(row, string(a.ID))
+				row = append(row, csvText(string(a.ID)))
 			case ColumnDate:
 				row = append(row, a.Opened.UTC().Format(time.DateOnly))
 			case ColumnRoute:
-				row = append(row, a.Origin+" → "+a.Destination)
+				row = append(row, csvText(a.Origin+" → "+a.Destination))
 			case ColumnCrew:
-				row = append(row, strings.Join(a.Crew, " "))
+				row = append(row, csvText(strings.Join(a.Crew, " ")))
 			case ColumnPatient:
-				row = append(row, patientText(a.Patient))
+				row = append(row, csvText(patientText(a.Patient)))
 			}
 		}
 		o := &a.Oxygen
-		row = append(row, a.Vehicle, cell(o.PlannedL), cell(o.UsedL), cell(o.Ratio), cell(o.ReserveAtArrivalL), cell(o.ReserveRequiredL), fmt.Sprint(len(a.Deviations)))
+		row = append(row, csvText(a.Vehicle), cell(o.PlannedL), cell(o.UsedL), cell(o.Ratio), cell(o.ReserveAtArrivalL), cell(o.ReserveRequiredL), fmt.Sprint(len(a.Deviations)))
 		for _, c := range DeviationCodes {
 			row = append(row, fmt.Sprint(a.DeviationCount(c.Code)))
 		}
-		row = append(row, strings.Join(a.NotComputable(), "; "))
+		row = append(row, csvText(strings.Join(a.NotComputable(), "; ")))
 		if err := cw.Write(row); err != nil {
 			return err
 		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// csvText keeps free text from being run as a formula when the CSV is
+// opened in a spreadsheet: a cell starting with =, +, -, @, a tab, a
+// carriage return or a line feed gets a leading apostrophe, which
+// spreadsheets read as "this cell is text" (OWASP "CSV Injection", from
+// memory). Only text cells go through it: a negative number stays a number.
+func csvText(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r\n", rune(s[0])) {
+		return "'" + s
+	}
+	return s
 }
 
 func patientText(p Patient) string {
