@@ -35,12 +35,27 @@ func newChrome() (*chrome, error) {
 	if err != nil {
 		return nil, err
 	}
+	c, err := chromeOn(profile)
+	if err != nil {
+		os.RemoveAll(profile)
+		return nil, err
+	}
+	stop := c.cancel
+	c.cancel = func() {
+		stop()
+		os.RemoveAll(profile)
+	}
+	return c, nil
+}
+
+// chromeOn starts Chromium on the profile directory given, which it
+// leaves in place when closed (for a start after the browser was closed).
+func chromeOn(profile string) (*chrome, error) {
 	allocCtx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), chromium.Options(profile)...)
 	ctx, cancelCtx := chromedp.NewContext(allocCtx)
 	c := &chrome{ctx: ctx, profile: profile, cancel: func() {
 		cancelCtx()
 		cancelAlloc()
-		os.RemoveAll(profile)
 	}}
 	if err := chromedp.Do(ctx); err != nil {
 		c.close()
