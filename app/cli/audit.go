@@ -38,6 +38,7 @@ arrival, patient course, deviations) and across transports.
 
 options:
   --passphrase-file FILE  read the passphrase from the first line of FILE
+                          (only the line ending is removed)
                           (otherwise: asked on the terminal without echo, or
                           one line read from standard input)
   --csv FILE              write the table as CSV (no identifying columns
@@ -227,7 +228,14 @@ func parseAuditArgs(args []string, stdout, stderr io.Writer) (auditArgs, int, bo
 		}
 		*d.into = t.AddDate(0, 0, d.days) // --to is inclusive: before the next day
 	}
-	if *limit < 0 || *limit > 24*60 {
+	given := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
+	// A typed target is checked as typed: 0 would otherwise read as "each
+	// Brief's target", which is what leaving the option out means.
+	if given["spo2-target"] && (math.IsNaN(*target) || *target < 50 || *target > 100) {
+		return usage("--spo2-target %g %%: allowed 50 to 100 %%", *target)
+	}
+	if math.IsNaN(*limit) || *limit < 0 || *limit > 24*60 {
 		return usage("--spo2-limit %g min: allowed 0 to 1440 min", *limit)
 	}
 	a.opts = logbook.AuditOptions{SpO2TargetPercent: *target, SpO2BelowLimit: time.Duration(*limit * float64(time.Minute))}
@@ -244,8 +252,11 @@ func parseAuditArgs(args []string, stdout, stderr io.Writer) (auditArgs, int, bo
 		if out != "" && samePath(out, a.bundle) {
 			return usage("output %s is the bundle itself: the bundle is never written", out)
 		}
+		if out != "" && a.passFile != "" && samePath(out, a.passFile) {
+			return usage("output %s and --passphrase-file name the same file", out)
+		}
 	}
-	if a.csvFile != "" && a.csvFile == a.jsonFile {
+	if a.csvFile != "" && a.jsonFile != "" && samePath(a.csvFile, a.jsonFile) {
 		return usage("--csv and --json name the same file")
 	}
 	return a, 0, true
@@ -266,7 +277,9 @@ func samePath(x, y string) bool {
 
 // readPassphrase takes the first line of file; else, on a terminal, asks
 // without echo; else reads one line from stdin. Only the line ending is
-// removed: spaces may belong to the passphrase.
+// removed: spaces may belong to the passphrase. An empty passphrase is an
+// error naming where it was read (no vault has one; it is most likely the
+// wrong file), not a key derivation ending in "wrong passphrase".
 func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, error) {
 	if file != "" {
 		data, err := os.ReadFile(file)
@@ -274,7 +287,10 @@ func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, err
 			return "", err
 		}
 		line, _, _ := strings.Cut(string(data), "\n")
-		return strings.TrimSuffix(line, "\r"), nil
+		if line = strings.TrimSuffix(line, "\r"); line == "" {
+			return "", fmt.Errorf("%s: the first line is empty; want the bundle's passphrase on it", file)
+		}
+		return line, nil
 	}
 	if f, ok := stdin.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
 		fmt.Fprint(stderr, "Bundle passphrase: ")
@@ -283,13 +299,19 @@ func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, err
 		if err != nil {
 			return "", fmt.Errorf("read passphrase: %w", err)
 		}
+		if len(b) == 0 {
+			return "", errors.New("the passphrase typed is empty")
+		}
 		return string(b), nil
 	}
 	line, err := bufio.NewReader(stdin).ReadString('\n')
 	if err != nil && (err != io.EOF || line == "") {
 		return "", errors.New("no passphrase: give --passphrase-file FILE, or one line on standard input")
 	}
-	return strings.TrimSuffix(strings.TrimSuffix(line, "\n"), "\r"), nil
+	if line = strings.TrimSuffix(strings.TrimSuffix(line, "\n"), "\r"); line == "" {
+		return "", errors.New("standard input: the passphrase line is empty")
+	}
+	return line, nil
 }
 
 // PrintAudit writes the text summary: each transport, then the table,

@@ -1,0 +1,103 @@
+package cli
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestAuditSpO2OptionsGivenOutOfRangeAreRefused: a value typed for
+// --spo2-target or --spo2-limit is checked as typed. 0 (or -0, or a number
+// too small for a float, which reads as 0) is not "use each Brief's
+// target": that is what leaving the option out means, and taking a typed 0
+// for it would audit against another target than the one asked for. NaN is
+// named as NaN, not as the duration it happens to convert to.
+func TestAuditSpO2OptionsGivenOutOfRangeAreRefused(t *testing.T) {
+	dir := t.TempDir()
+	bundle, _ := demoCopy(t, dir)
+	pass := writePass(t, dir, auditPass)
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--spo2-target", "0"}, "--spo2-target 0 %: allowed 50 to 100 %"},
+		{[]string{"--spo2-target", "-0"}, "--spo2-target -0 %: allowed 50 to 100 %"},
+		{[]string{"--spo2-target", "1e-400"}, "--spo2-target 0 %: allowed 50 to 100 %"},
+		{[]string{"--spo2-target", "NaN"}, "--spo2-target NaN %: allowed 50 to 100 %"},
+		{[]string{"--spo2-limit", "NaN"}, "--spo2-limit NaN min: allowed 0 to 1440 min"},
+	} {
+		code, out, errs := runAudit(append([]string{bundle, "--passphrase-file", pass}, c.args...), "")
+		if code != ExitUsage || out != "" || !strings.Contains(errs, c.want) {
+			t.Errorf("%q: exit %d, stdout %d bytes, stderr %q; want exit %d and %q", c.args, code, len(out), firstLine(errs), ExitUsage, c.want)
+		}
+	}
+	// The edges of the range are accepted.
+	for _, args := range [][]string{{"--spo2-target", "50"}, {"--spo2-target", "100"}, {"--spo2-limit", "0"}, {"--spo2-limit", "1440"}} {
+		if code, _, errs := runAudit(append([]string{bundle, "--passphrase-file", pass}, args...), ""); code != ExitAuditOK {
+			t.Errorf("%q: exit %d, %s", args, code, errs)
+		}
+	}
+}
+
+// TestAuditOutputsNamingTheSameFileAreRefused: --csv and --json spelled
+// differently but naming one file would leave only the CSV (the JSON
+// written first, then overwritten), and an output naming the passphrase
+// file would overwrite it. Both are refused before anything is read.
+func TestAuditOutputsNamingTheSameFileAreRefused(t *testing.T) {
+	dir := t.TempDir()
+	bundle, _ := demoCopy(t, dir)
+	pass := writePass(t, dir, auditPass)
+	out := filepath.Join(dir, "out")
+	for _, args := range [][]string{
+		{"--csv", out, "--json", dir + string(filepath.Separator) + "." + string(filepath.Separator) + "out"},
+		{"--json", pass},
+		{"--csv", pass},
+	} {
+		code, _, errs := runAudit(append([]string{bundle, "--passphrase-file", pass}, args...), "")
+		if code != ExitUsage || !strings.Contains(errs, "same file") {
+			t.Errorf("%q: exit %d, stderr %q; want exit %d naming the same file", args, code, firstLine(errs), ExitUsage)
+		}
+	}
+	if data, err := os.ReadFile(pass); err != nil || string(data) != auditPass+"\n" {
+		t.Errorf("passphrase file overwritten: now %d bytes (%v)", len(data), err)
+	}
+}
+
+// TestAuditEmptyPassphraseIsAUsageError: an empty first line of the
+// passphrase file (an empty file, or one starting with a blank line), or an
+// empty line on standard input, is not tried as a passphrase (a vault's is
+// at least 10 characters): it is refused as a usage error naming where it
+// was read, not reported as a wrong passphrase after a key derivation.
+func TestAuditEmptyPassphraseIsAUsageError(t *testing.T) {
+	dir := t.TempDir()
+	bundle, _ := demoCopy(t, dir)
+	for _, content := range []string{"", "\n", "\r\n", "\n" + auditPass + "\n"} {
+		p := filepath.Join(dir, "empty.txt")
+		if err := os.WriteFile(p, []byte(content), 0o600); err != nil {
+			t.Fatal(err)
+		}
+		code, _, errs := runAudit([]string{bundle, "--passphrase-file", p}, "")
+		if code != ExitUsage || !strings.Contains(errs, p) || !strings.Contains(errs, "empty") {
+			t.Errorf("file %q: exit %d, stderr %q; want exit %d naming %s as empty", content, code, firstLine(errs), ExitUsage, p)
+		}
+	}
+	code, _, errs := runAudit([]string{bundle}, "\n")
+	if code != ExitUsage || !strings.Contains(errs, "standard input") || !strings.Contains(errs, "empty") {
+		t.Errorf("empty line on standard input: exit %d, stderr %q", code, firstLine(errs))
+	}
+	// A trailing newline, or CRLF, is the line ending, not part of the
+	// passphrase (the documented "first line of FILE").
+	for _, ending := range []string{"", "\n", "\r\n", "\nsecond line\n"} {
+		p := filepath.Join(dir, "pass.txt")
+		os.WriteFile(p, []byte(auditPass+ending), 0o600)
+		if code, _, errs := runAudit([]string{bundle, "--passphrase-file", p}, ""); code != ExitAuditOK {
+			t.Errorf("passphrase + %q: exit %d, %s", ending, code, errs)
+		}
+	}
+}
+
+func firstLine(s string) string {
+	line, _, _ := strings.Cut(s, "\n")
+	return line
+}
