@@ -343,6 +343,10 @@ func decodeBrief(b Timed[Brief]) briefPlan {
 		p.err = fmt.Sprintf("the Brief result (%s) does not decode as a plan result", RecordName(b.Seq))
 		return p
 	}
+	if why := implausibleResult(&r); why != "" {
+		p.err = fmt.Sprintf("the Brief result (%s) is not one the plan engine produces: %s", RecordName(b.Seq), why)
+		return p
+	}
 	p.result = &r
 	return p
 }
