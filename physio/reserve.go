@@ -5,7 +5,7 @@ import "time"
 // ReservePolicy is the margin a plan keeps on top of the calculated oxygen
 // need. It is always explicit: the plan states the policy it used.
 type ReservePolicy struct {
-	Residual     Pressure      // safe residual left in each cylinder (gauge), 0–1 000 psi
+	Residual     Pressure      // safe residual left in each cylinder (gauge), 0–70 bar (1 015 psi)
 	Factor       float64       // multiplier on the calculated need (1 = none), 1–3
 	AddedMinutes time.Duration // extra time at the flow passed to Required, 0–240 min
 }
@@ -17,17 +17,29 @@ type ReservePolicy struct {
 var DefaultReservePolicy = ReservePolicy{Residual: Psi(200), Factor: 1.5, AddedMinutes: 0}
 
 // Plausible policy ranges.
+//
+// The residual's top is 70 bar (1 015.26 psi): the plan document accepts a
+// residual of up to 1 000 psi or up to 70 bar, and the policy must take
+// the larger of the two, or a residual the document accepts fails here.
+//
+// The need's top, 10⁸ L, lies above the largest need a valid plan document
+// can give (50 legs of 2 880 min at 140 L/min, the highest flow its ranges
+// allow, is 2.0·10⁷ L): such a plan is short of oxygen, not an error.
 const (
-	reserveMaxResidualPsi = 1000.0
+	reserveMaxResidualBar = 70.0
 	reserveMinFactor      = 1.0
 	reserveMaxFactor      = 3.0
 	reserveMaxAddedMin    = 240.0
-	reserveMaxNeedLitres  = 1e6
+	reserveMaxNeedLitres  = 1e8
 	reserveMaxFlow        = 200.0
 )
 
-// Validate checks the policy's ranges: residual 0–1 000 psi, factor 1–3,
-// added minutes 0–240. Outside: a *RangeError naming the field.
+// reserveMaxResidualPsi is reserveMaxResidualBar in psi, the unit the
+// residual's range error is given in.
+var reserveMaxResidualPsi = Bar(reserveMaxResidualBar).Psi()
+
+// Validate checks the policy's ranges: residual 0–70 bar (0–1 015.26 psi),
+// factor 1–3, added minutes 0–240. Outside: a *RangeError naming the field.
 func (p ReservePolicy) Validate() error {
 	if err := checkRange("reserve residual", p.Residual.Psi(), 0, reserveMaxResidualPsi, "psi"); err != nil {
 		return err
@@ -46,7 +58,7 @@ func (p ReservePolicy) Validate() error {
 // last leg's, or the highest leg's as ComputePlan uses (the cautious
 // choice: a delay may come on any leg). The residual is not added
 // here: it is kept out of each cylinder's usable litres (Cylinder.Usable).
-// need 0–1 000 000 L, flow 0–200 L/min, and a valid policy; otherwise a
+// need 0–100 000 000 L, flow 0–200 L/min, and a valid policy; otherwise a
 // *RangeError. Unrounded: oxygen needed, round UP.
 func (p ReservePolicy) Required(need Volume, flow Flow) (Volume, error) {
 	if err := p.Validate(); err != nil {

@@ -47,7 +47,9 @@ func TestReserveRequired(t *testing.T) {
 
 func TestReserveBadInput(t *testing.T) {
 	inf, nan := math.Inf(1), math.NaN()
-	for _, r := range []Pressure{Psi(-1), Psi(1001), Bar(500), Pressure(nan), Pressure(inf)} {
+	// The residual's top is 70 bar (1 015.26 psi; `units -t '70 bar' psi`
+	// → 1015.2642), the plan document's limit in bar.
+	for _, r := range []Pressure{Psi(-1), Psi(1016), Bar(70.01), Bar(500), Pressure(nan), Pressure(inf)} {
 		p := ReservePolicy{Residual: r, Factor: 1.5}
 		supplyWantRange(t, p.Validate(), "reserve residual", "psi")
 		_, err := p.Required(100, 2)
@@ -62,7 +64,7 @@ func TestReserveBadInput(t *testing.T) {
 		p := ReservePolicy{Factor: 1, AddedMinutes: m}
 		supplyWantRange(t, p.Validate(), "reserve added time", "min")
 	}
-	for _, n := range []float64{-1, 2e6, inf, nan} {
+	for _, n := range []float64{-1, 2e8, inf, nan} {
 		_, err := DefaultReservePolicy.Required(Litres(n), 2)
 		supplyWantRange(t, err, "oxygen need", "L")
 	}
