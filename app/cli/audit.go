@@ -113,7 +113,7 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stdout, "VERIFICATION FAILED: %s\n", filepath.Base(a.bundle))
 		fmt.Fprintf(stdout, "%d problem(s), by record:\n", len(damage.Problems))
 		for _, p := range damage.Problems {
-			fmt.Fprintf(stdout, "  %-6s %s: %s\n", p.Record(), p.Kind, p.Detail)
+			fmt.Fprintf(stdout, "  %-6s %s: %s\n", p.Record(), p.Kind, printable(p.Detail))
 		}
 		fmt.Fprintln(stdout, "No audit is printed or written from a bundle that fails verification: ask for a fresh export.")
 		fmt.Fprintf(stderr, "alvea audit: %s failed verification (%d problems)\n", filepath.Base(a.bundle), len(damage.Problems))
@@ -130,7 +130,7 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	if !report.Chain.Verified {
 		// OpenBundle verified everything; reading again must agree.
-		fmt.Fprintf(stderr, "alvea audit: problems found on reading: %s\n", strings.Join(report.Chain.Problems, "; "))
+		fmt.Fprintf(stderr, "alvea audit: problems found on reading: %s\n", printable(strings.Join(report.Chain.Problems, "; ")))
 		return ExitAuditDamaged
 	}
 	PrintAudit(stdout, filepath.Base(a.bundle), report)
@@ -363,7 +363,7 @@ func printTransport(w io.Writer, a *logbook.TransportAudit) {
 		closed = "closed " + stamp(*a.Closed)
 	}
 	fmt.Fprintf(w, "Transport %s  opened %s, %s\n", a.ID, stamp(a.Opened), closed)
-	fmt.Fprintf(w, "  %s → %s; %s\n", a.Origin, a.Destination, a.Vehicle)
+	fmt.Fprintf(w, "  %s → %s; %s\n", printable(a.Origin), printable(a.Destination), printable(a.Vehicle))
 	brief := "no Brief"
 	if a.BriefRecord != "" {
 		brief = fmt.Sprintf("Brief %s, engine %s", a.BriefRecord, a.EngineVersion)
@@ -380,31 +380,31 @@ func printTransport(w io.Writer, a *logbook.TransportAudit) {
 			if l.Label != "" {
 				label = l.Label
 			}
-			fmt.Fprintf(tw, "    %d %s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Index+1, label, l.Where, l.StartMinute, l.EndMinute, l.AltitudeFt, l.Device, l.OxygenLpm, l.OxygenL)
+			fmt.Fprintf(tw, "    %d %s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", l.Index+1, printable(label), printable(l.Where), l.StartMinute, l.EndMinute, l.AltitudeFt, printable(l.Device), l.OxygenLpm, l.OxygenL)
 		}
 		tw.Flush()
 	}
-	fmt.Fprintf(w, "    calculated need %s; with reserve %s; usable on board %s\n", ox.PlannedL, ox.PlannedWithReserveL, ox.PlannedUsableL)
+	fmt.Fprintf(w, "    calculated need %s; with reserve %s; usable on board %s\n", say(ox.PlannedL), say(ox.PlannedWithReserveL), say(ox.PlannedUsableL))
 	if ox.FinalPlannedL.Known() {
-		fmt.Fprintf(w, "    amended plan (%s): calculated need %s\n", ox.FinalBriefRecord, ox.FinalPlannedL)
+		fmt.Fprintf(w, "    amended plan (%s): calculated need %s\n", ox.FinalBriefRecord, say(ox.FinalPlannedL))
 	}
-	fmt.Fprintf(w, "    residual %s (%s)\n", ox.ResidualPressure, ox.ResidualSource)
+	fmt.Fprintf(w, "    residual %s (%s)\n", say(ox.ResidualPressure), printable(ox.ResidualSource))
 	fmt.Fprintln(w, "  Oxygen used, from the gauge readings")
 	if len(ox.Cylinders) > 0 {
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 		fmt.Fprintln(tw, "    cylinder\tdefinition\treadings\tfirst\tlast\tused\tat arrival\tabove residual")
 		for _, c := range ox.Cylinders {
-			fmt.Fprintf(tw, "    %s\t%s\t%d\t%s\t%s\t%s\t%s\t%s\n", c.Label, c.Definition, c.Readings, short(c.First), short(c.Last), short(c.UsedL), short(c.AtArrival), short(c.UsableAtArrivalL))
+			fmt.Fprintf(tw, "    %s\t%s\t%d\t%s\t%s\t%s\t%s\t%s\n", printable(c.Label), printable(c.Definition), c.Readings, short(c.First), short(c.Last), short(c.UsedL), short(c.AtArrival), short(c.UsableAtArrivalL))
 		}
 		tw.Flush()
 	}
-	fmt.Fprintf(w, "    used %s; used ÷ planned %s\n", ox.UsedL, ox.Ratio)
+	fmt.Fprintf(w, "    used %s; used ÷ planned %s\n", say(ox.UsedL), say(ox.Ratio))
 	arrival := "no arrival recorded"
 	if ox.Arrival != nil {
 		arrival = fmt.Sprintf("%s at %s (%s)", ox.ArrivalEvent, stamp(*ox.Arrival), ox.ArrivalRecord)
 	}
 	fmt.Fprintf(w, "    arrival: %s\n", arrival)
-	fmt.Fprintf(w, "    reserve at arrival %s; policy reserve %s; multiple %s\n", ox.ReserveAtArrivalL, ox.ReserveRequiredL, ox.ReserveMultiple)
+	fmt.Fprintf(w, "    reserve at arrival %s; policy reserve %s; multiple %s\n", say(ox.ReserveAtArrivalL), say(ox.ReserveRequiredL), say(ox.ReserveMultiple))
 	for _, c := range ox.PlannedChanges {
 		actual := "none recorded"
 		if c.ActualMinute != nil {
@@ -414,20 +414,20 @@ func printTransport(w io.Writer, a *logbook.TransportAudit) {
 		if c.Late {
 			late = "  LATE"
 		}
-		fmt.Fprintf(w, "    change from %s planned at minute %s: %s%s\n", c.From, c.PlannedMinute, actual, late)
+		fmt.Fprintf(w, "    change from %s planned at minute %s: %s%s\n", printable(c.From), c.PlannedMinute, actual, late)
 	}
 
 	pc := &a.Course
-	fmt.Fprintf(w, "  Patient course (SpO2 target %s %%, %s)\n", pc.TargetPercent, pc.TargetSource)
-	low := pc.LowestSpO2.String()
+	fmt.Fprintf(w, "  Patient course (SpO2 target %s %%, %s)\n", pc.TargetPercent, printable(pc.TargetSource))
+	low := say(pc.LowestSpO2)
 	if pc.LowestRecord != "" {
 		low += " (" + pc.LowestRecord + ")"
 	}
 	if pc.SpO2Readings == 0 {
 		fmt.Fprintln(w, "    no SpO2 readings: lowest SpO2 and minutes below target not computable")
 	} else {
-		fmt.Fprintf(w, "    %d SpO2 readings over %s; longest gap %s\n", pc.SpO2Readings, pc.ObservedMinutes, pc.LongestGapMinutes)
-		fmt.Fprintf(w, "    lowest SpO2 %s; below target %s; longest run %s", low, pc.MinutesBelowTarget, pc.LongestBelowMinutes)
+		fmt.Fprintf(w, "    %d SpO2 readings over %s; longest gap %s\n", pc.SpO2Readings, say(pc.ObservedMinutes), say(pc.LongestGapMinutes))
+		fmt.Fprintf(w, "    lowest SpO2 %s; below target %s; longest run %s", low, say(pc.MinutesBelowTarget), say(pc.LongestBelowMinutes))
 		if pc.LongestBelowRecord != "" {
 			fmt.Fprintf(w, " from %s", pc.LongestBelowRecord)
 		}
@@ -452,7 +452,7 @@ func printTransport(w io.Writer, a *logbook.TransportAudit) {
 		if c.Initial {
 			what = "initial"
 		}
-		fmt.Fprintf(w, "    minute %s %s (%s): %s\n", c.Minute, what, c.Record, strings.Join(parts, ", "))
+		fmt.Fprintf(w, "    minute %s %s (%s): %s\n", c.Minute, what, c.Record, printable(strings.Join(parts, ", ")))
 	}
 	fmt.Fprintf(w, "  Deviations (%d)\n", len(a.Deviations))
 	for _, d := range a.Deviations {
@@ -460,10 +460,10 @@ func printTransport(w io.Writer, a *logbook.TransportAudit) {
 		if rec == "" {
 			rec = "-"
 		}
-		fmt.Fprintf(w, "    %-24s %-5s %s\n", d.Code, rec, d.Detail)
+		fmt.Fprintf(w, "    %-24s %-5s %s\n", d.Code, rec, printable(d.Detail))
 	}
 	for _, p := range a.Problems {
-		fmt.Fprintf(w, "    unreadable: %s\n", p)
+		fmt.Fprintf(w, "    unreadable: %s\n", printable(p))
 	}
 }
 
@@ -480,8 +480,12 @@ func short(a logbook.Amount) string {
 	if !a.Known() {
 		return "n/c"
 	}
-	return a.String()
+	return say(a)
 }
+
+// say prints an amount, or why it is not computable (a reason may name a
+// cylinder label typed by the crew).
+func say(a logbook.Amount) string { return printable(a.String()) }
 
 func printAcross(w io.Writer, r *logbook.AuditReport) {
 	fmt.Fprintf(w, "Across transports (%d)\n", len(r.Transports))
@@ -496,7 +500,7 @@ func printAcross(w io.Writer, r *logbook.AuditReport) {
 	for i := range r.Transports {
 		a := &r.Transports[i]
 		o := &a.Oxygen
-		fmt.Fprintf(tw, "  %s\t%s\t%s → %s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", a.ID, a.Opened.UTC().Format(time.DateOnly), a.Origin, a.Destination, a.Vehicle,
+		fmt.Fprintf(tw, "  %s\t%s\t%s → %s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", a.ID, a.Opened.UTC().Format(time.DateOnly), printable(a.Origin), printable(a.Destination), printable(a.Vehicle),
 			cell(o.PlannedL), cell(o.UsedL), cell(o.Ratio), cell(o.ReserveAtArrivalL), cell(o.ReserveRequiredL), deviationList(a))
 	}
 	tw.Flush()

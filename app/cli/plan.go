@@ -124,7 +124,7 @@ func reportPlanErrors(w io.Writer, name string, err error) {
 	}
 	fmt.Fprintf(w, "alvea plan: %s: %d %s in the plan document:\n", name, len(pe), noun)
 	for _, fe := range pe {
-		fmt.Fprintf(w, "  %s\n", fe.Error())
+		fmt.Fprintf(w, "  %s\n", printable(fe.Error()))
 	}
 }
 
@@ -132,7 +132,7 @@ func reportPlanErrors(w io.Writer, name string, err error) {
 func writeBrief(w io.Writer, doc *physio.PlanDocument, r *physio.PlanResult) {
 	fmt.Fprintln(w, statusLine(r))
 	if r.Title != "" {
-		fmt.Fprintf(w, "Plan: %s\n", r.Title)
+		fmt.Fprintf(w, "Plan: %s\n", printable(r.Title))
 	}
 	fmt.Fprintf(w, "Engine %s, plan document version %d\n\n", r.EngineVersion, r.DocumentVersion)
 
@@ -189,7 +189,7 @@ func writeBrief(w io.Writer, doc *physio.PlanDocument, r *physio.PlanResult) {
 		}
 		fmt.Fprintf(w, "  Leg %d options (not orders; local protocol and medical direction decide):\n", l.Index+1)
 		for _, o := range l.Options {
-			fmt.Fprintf(w, "    - %s\n", strings.TrimPrefix(o.Label, "option: "))
+			fmt.Fprintf(w, "    - %s\n", printable(strings.TrimPrefix(o.Label, "option: ")))
 		}
 	}
 
@@ -242,7 +242,7 @@ func writeBrief(w io.Writer, doc *physio.PlanDocument, r *physio.PlanResult) {
 			if cy.StartMinute != nil {
 				open = fmt.Sprintf("open at minute %s", cy.StartMinute)
 			}
-			fmt.Fprintf(tw, "    %d\t%s\tusable %s L\t%s\t%s\n", cy.Order, cy.Name, cy.UsableL, open, when)
+			fmt.Fprintf(tw, "    %d\t%s\tusable %s L\t%s\t%s\n", cy.Order, printable(cy.Name), cy.UsableL, open, when)
 		}
 		tw.Flush()
 	}
@@ -257,13 +257,13 @@ func writeBrief(w io.Writer, doc *physio.PlanDocument, r *physio.PlanResult) {
 	if len(r.Assumptions) > 0 {
 		fmt.Fprintln(w, "\nAssumptions")
 		for _, a := range r.Assumptions {
-			fmt.Fprintf(w, "  %s = %s: %s\n", a.Path, a.Value, a.Reason)
+			fmt.Fprintf(w, "  %s = %s: %s\n", printable(a.Path), printable(a.Value), printable(a.Reason))
 		}
 	}
 	if len(r.Warnings) > 0 {
 		fmt.Fprintln(w, "\nWarnings")
 		for _, wn := range r.Warnings {
-			fmt.Fprintf(w, "  [%s] %s: %s\n", severityWord(wn.Severity), wn.Code, wn.Message)
+			fmt.Fprintf(w, "  [%s] %s: %s\n", severityWord(wn.Severity), wn.Code, printable(wn.Message))
 		}
 	}
 	fmt.Fprintf(w, "\nCaution: %s\n", r.Caution)
