@@ -88,17 +88,24 @@ type parsedBundle struct {
 // not even the header can be read; a bundle cut short later keeps the
 // records read so far and notes the problem.
 func parseBundle(data []byte) (*parsedBundle, error) {
+	if len(data) == 0 {
+		return nil, fmt.Errorf("%w: the file is empty", ErrBundle)
+	}
 	r := &reader{b: data}
 	if !bytes.Equal(r.fixed(len(bundleMagic)), []byte(bundleMagic)) {
-		return nil, ErrBundle
+		return nil, fmt.Errorf("%w: not a logbook bundle (it does not start with the bundle signature)", ErrBundle)
 	}
-	if ver := r.u8(); r.err != nil || ver != bundleVersion {
+	ver := r.u8()
+	if r.err != nil {
+		return nil, fmt.Errorf("%w: cut short after the bundle signature", ErrBundle)
+	}
+	if ver != bundleVersion {
 		return nil, fmt.Errorf("%w: version %d (this build reads %d)", ErrBundle, ver, bundleVersion)
 	}
 	p := &parsedBundle{header: r.bytes(maxHeaderSize)}
 	p.head = r.bytes(headSize)
 	if r.err != nil {
-		return nil, ErrBundle
+		return nil, fmt.Errorf("%w: cut short in the vault header, %d bytes in all", ErrBundle, len(data))
 	}
 	count := r.uvarint()
 	for i := uint64(0); r.err == nil && i < count; i++ {
