@@ -111,12 +111,12 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	case errors.As(err, &damage):
 		v.Lock()
 		fmt.Fprintf(stdout, "VERIFICATION FAILED: %s\n", filepath.Base(a.bundle))
-		fmt.Fprintf(stdout, "%d problem(s), by record:\n", len(damage.Problems))
+		fmt.Fprintf(stdout, "%s, by record:\n", count(len(damage.Problems), "problem"))
 		for _, p := range damage.Problems {
 			fmt.Fprintf(stdout, "  %-6s %s: %s\n", p.Record(), p.Kind, printable(p.Detail))
 		}
 		fmt.Fprintln(stdout, "No audit is printed or written from a bundle that fails verification: ask for a fresh export.")
-		fmt.Fprintf(stderr, "alvea audit: %s failed verification (%d problems)\n", filepath.Base(a.bundle), len(damage.Problems))
+		fmt.Fprintf(stderr, "alvea audit: %s failed verification (%s)\n", filepath.Base(a.bundle), count(len(damage.Problems), "problem"))
 		return ExitAuditDamaged
 	case err != nil:
 		fmt.Fprintf(stderr, "alvea audit: %v\n", err)
@@ -158,6 +158,14 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 	}
 	return ExitAuditOK
+}
+
+// count writes n things: "1 problem", "2 problems".
+func count(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }
 
 // parseAuditArgs reads the command line; options may come before or after

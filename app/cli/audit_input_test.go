@@ -101,3 +101,18 @@ func firstLine(s string) string {
 	line, _, _ := strings.Cut(s, "\n")
 	return line
 }
+
+// TestAuditDamageCountsOneProblem: a bundle whose only fault is its
+// whole-file check (its last byte changed) is reported with "1 problem",
+// not "1 problems", on both streams.
+func TestAuditDamageCountsOneProblem(t *testing.T) {
+	dir := t.TempDir()
+	bundle, _ := demoCopy(t, dir)
+	data, _ := os.ReadFile(bundle)
+	data[len(data)-1] ^= 0x01
+	os.WriteFile(bundle, data, 0o600)
+	code, out, errs := runAudit([]string{bundle, "--passphrase-file", writePass(t, dir, auditPass)}, "")
+	if code != ExitAuditDamaged || !strings.Contains(out, "\n1 problem, by record:") || !strings.Contains(errs, "(1 problem)") {
+		t.Errorf("exit %d:\n%s%s", code, out, errs)
+	}
+}
