@@ -25,7 +25,7 @@ import (
 // Exit statuses of `alvea audit` (0 and ExitUsage as for plan).
 const (
 	ExitAuditOK         = 0 // verified and audited
-	ExitAuditIO         = 1 // an output file could not be written
+	ExitAuditIO         = 1 // an output file, or the summary on standard output, could not be written
 	ExitAuditDamaged    = 3 // the bundle failed verification (each failure named by record) or is not a bundle
 	ExitAuditPassphrase = 4 // wrong passphrase (or a damaged bundle header: the two cannot be told apart)
 )
@@ -56,9 +56,10 @@ options:
   --spo2-limit MINUTES    a run below target longer than this is a deviation
                           (default 5)
 
-Exit status: 0 audited; 1 an output file could not be written; 2 usage
-error or unreadable file; 3 the bundle failed verification (what failed is
-printed by record) or is not a bundle; 4 wrong passphrase.
+Exit status: 0 audited; 1 an output file (or standard output) could not
+be written; 2 usage error or unreadable file; 3 the bundle failed
+verification (what failed is printed by record) or is not a bundle; 4 wrong
+passphrase.
 `
 
 // listFlag collects a repeatable, comma-separated option.
@@ -133,7 +134,8 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "alvea audit: problems found on reading: %s\n", printable(strings.Join(report.Chain.Problems, "; ")))
 		return ExitAuditDamaged
 	}
-	PrintAudit(stdout, filepath.Base(a.bundle), report)
+	out := &stickyWriter{w: stdout}
+	PrintAudit(out, filepath.Base(a.bundle), report)
 	if a.jsonFile != "" {
 		b, err := json.MarshalIndent(report, "", "  ")
 		if err == nil {
@@ -156,6 +158,10 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stderr, "alvea audit: write CSV: %v\n", err)
 			return ExitAuditIO
 		}
+	}
+	if out.err != nil {
+		fmt.Fprintf(stderr, "alvea audit: write standard output: %v\n", out.err)
+		return ExitAuditIO
 	}
 	return ExitAuditOK
 }

@@ -20,7 +20,7 @@ const (
 	ExitGo          = 0 // the plan is a go (possibly with cautions to read)
 	ExitNoGo        = 1 // the plan computed, and it is a no-go
 	ExitUsage       = 2 // bad arguments, unreadable file, or a bad plan document
-	ExitEngineError = 3 // the document was valid but the engine could not compute it (a bug: please report)
+	ExitEngineError = 3 // the document was valid but the engine could not compute it (a bug: please report), or the brief could not be written
 )
 
 const planUsage = `usage: alvea plan [--json] FILE|-
@@ -32,7 +32,7 @@ document instead.
 
 Exit status: 0 go (read any cautions), 1 no-go, 2 usage error or bad plan
 document (each problem named by its path, value, range and unit), 3 engine
-error.
+error or the brief could not be written out.
 `
 
 // Plan runs `alvea plan [--json] FILE|-`. See planUsage for the exit
@@ -96,15 +96,20 @@ func Plan(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "alvea plan: %s: %v\n", name, err)
 		return ExitEngineError
 	}
+	out := &stickyWriter{w: stdout}
 	if asJSON {
-		enc := json.NewEncoder(stdout)
+		enc := json.NewEncoder(out)
 		enc.SetIndent("", "  ")
-		if err := enc.Encode(res); err != nil {
+		if err := enc.Encode(res); err != nil && out.err == nil {
 			fmt.Fprintf(stderr, "alvea plan: %v\n", err)
 			return ExitEngineError
 		}
 	} else {
-		writeBrief(stdout, doc, res)
+		writeBrief(out, doc, res)
+	}
+	if out.err != nil {
+		fmt.Fprintf(stderr, "alvea plan: write standard output: %v\n", out.err)
+		return ExitEngineError
 	}
 	if !res.Go {
 		return ExitNoGo

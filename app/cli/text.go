@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"io"
 	"strconv"
 	"strings"
 	"unicode"
@@ -31,4 +32,21 @@ func printable(s string) string {
 
 func hidden(r rune) bool {
 	return unicode.IsControl(r) || unicode.Is(unicode.Bidi_Control, r)
+}
+
+// stickyWriter keeps the first error of the writes through it, so that a
+// report printed with many Fprintf calls (to a full disk, a closed pipe) is
+// not taken as delivered when it was not.
+type stickyWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (s *stickyWriter) Write(p []byte) (int, error) {
+	if s.err != nil {
+		return 0, s.err
+	}
+	n, err := s.w.Write(p)
+	s.err = err
+	return n, err
 }
