@@ -2,6 +2,8 @@ package cli
 
 import (
 	"errors"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -29,5 +31,28 @@ func TestReportNotWrittenIsNotSuccess(t *testing.T) {
 	code = Audit([]string{bundle, "--passphrase-file", writePass(t, dir, auditPass)}, strings.NewReader(""), fullWriter{}, &errb)
 	if code != ExitAuditIO || !strings.Contains(errb.String(), "standard output") || !strings.Contains(errb.String(), errFull.Error()) {
 		t.Errorf("audit: exit %d, stderr %q", code, errb.String())
+	}
+}
+
+// TestPlanDoubleDashEndsOptions: after "--" an argument starting with - is
+// the FILE (the usual end of options), so a plan saved as "-night.json"
+// can be given; before, "--" was refused as an unknown option.
+func TestPlanDoubleDashEndsOptions(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join("..", "..", "testdata", "plans", "rotor-mountain.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "-night.json"), data, 0o600); err != nil {
+		t.Fatal(err)
+	}
+	t.Chdir(dir)
+	var out, errb strings.Builder
+	if code := Plan([]string{"--json", "--", "-night.json"}, strings.NewReader(""), &out, &errb); code != ExitGo || !strings.HasPrefix(out.String(), "{") {
+		t.Errorf("exit %d, stderr %q", code, errb.String())
+	}
+	errb.Reset()
+	if code := Plan([]string{"-night.json"}, strings.NewReader(""), &out, &errb); code != ExitUsage || !strings.Contains(errb.String(), "unknown option -night.json") {
+		t.Errorf("without --: exit %d, stderr %q", code, firstLine(errb.String()))
 	}
 }

@@ -23,7 +23,7 @@ const (
 	ExitEngineError = 3 // the document was valid but the engine could not compute it (a bug: please report), or the brief could not be written
 )
 
-const planUsage = `usage: alvea plan [--json] FILE|-
+const planUsage = `usage: alvea plan [--json] [--] FILE|-
 
 Reads a plan document (JSON, version 1) from FILE, or from standard input
 when FILE is -, and prints the brief: a GO / NO-GO line, then the numbers
@@ -41,17 +41,20 @@ func Plan(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	asJSON := false
 	file := ""
 	files := 0
+	options := true // until "--": what follows it is a FILE even when it starts with -
 	for _, a := range args {
 		switch {
-		case a == "--json" || a == "-json":
+		case options && a == "--":
+			options = false
+		case options && (a == "--json" || a == "-json"):
 			asJSON = true
-		case a == "-h" || a == "--help" || a == "-help":
+		case options && (a == "-h" || a == "--help" || a == "-help"):
 			fmt.Fprint(stdout, planUsage)
 			return ExitGo
 		case a == "-":
 			file = a
 			files++
-		case strings.HasPrefix(a, "-"):
+		case options && strings.HasPrefix(a, "-"):
 			fmt.Fprintf(stderr, "alvea plan: unknown option %s\n%s", a, planUsage)
 			return ExitUsage
 		default:
