@@ -242,6 +242,10 @@ func parseAuditArgs(args []string, stdout, stderr io.Writer) (auditArgs, int, bo
 		}
 		*d.into = t.AddDate(0, 0, d.days) // --to is inclusive: before the next day
 	}
+	if !a.filter.From.IsZero() && !a.filter.To.IsZero() && !a.filter.From.Before(a.filter.To) {
+		// Said with the dates as typed (the filter holds the day after --to).
+		return usage("--to %s: allowed a date on or after --from %s", *to, *from)
+	}
 	given := map[string]bool{}
 	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
 	// A typed target is checked as typed: 0 would otherwise read as "each

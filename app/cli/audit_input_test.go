@@ -116,3 +116,18 @@ func TestAuditDamageCountsOneProblem(t *testing.T) {
 		t.Errorf("exit %d:\n%s%s", code, out, errs)
 	}
 }
+
+// TestAuditDateRangeRefusedAsTyped: --to before --from is refused naming
+// the date typed, not the day after it that the inclusive filter holds
+// (before: "to 2031-05-02" for --to 2031-05-01). One day is a valid range.
+func TestAuditDateRangeRefusedAsTyped(t *testing.T) {
+	dir := t.TempDir()
+	bundle, _ := demoCopy(t, dir)
+	code, _, errs := runAudit([]string{bundle, "--from", "2031-05-10", "--to", "2031-05-01"}, auditPass)
+	if want := "--to 2031-05-01: allowed a date on or after --from 2031-05-10"; code != ExitUsage || !strings.Contains(errs, want) {
+		t.Errorf("exit %d, stderr %q, want %q", code, firstLine(errs), want)
+	}
+	if code, out, errs := runAudit([]string{bundle, "--from", "2031-05-09", "--to", "2031-05-09"}, auditPass); code != ExitAuditOK || !strings.Contains(out, "Across transports (1)") {
+		t.Errorf("one day: exit %d, %s", code, firstLine(errs))
+	}
+}
