@@ -89,7 +89,7 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if !ok {
 		return code
 	}
-	data, err := os.ReadFile(a.bundle)
+	data, err := readBundleFile(a.bundle)
 	if err != nil {
 		fmt.Fprintf(stderr, "alvea audit: %v\n", err)
 		return ExitUsage
@@ -300,12 +300,16 @@ func samePath(x, y string) bool {
 // wrong file), not a key derivation ending in "wrong passphrase".
 func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, error) {
 	if file != "" {
-		data, err := os.ReadFile(file)
+		f, err := os.Open(file)
 		if err != nil {
 			return "", err
 		}
-		line, _, _ := strings.Cut(string(data), "\n")
-		if line = strings.TrimSuffix(line, "\r"); line == "" {
+		defer f.Close()
+		line, err := firstLine(f)
+		switch {
+		case err != nil:
+			return "", fmt.Errorf("%s: %w", file, err)
+		case line == "":
 			return "", fmt.Errorf("%s: the first line is empty; want the bundle's passphrase on it", file)
 		}
 		return line, nil
@@ -322,14 +326,57 @@ func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, err
 		}
 		return string(b), nil
 	}
-	line, err := bufio.NewReader(stdin).ReadString('\n')
-	if err != nil && (err != io.EOF || line == "") {
+	line, err := firstLine(stdin)
+	switch {
+	case errors.Is(err, io.EOF):
 		return "", errors.New("no passphrase: give --passphrase-file FILE, or one line on standard input")
-	}
-	if line = strings.TrimSuffix(strings.TrimSuffix(line, "\n"), "\r"); line == "" {
+	case err != nil:
+		return "", fmt.Errorf("standard input: %w", err)
+	case line == "":
 		return "", errors.New("standard input: the passphrase line is empty")
 	}
 	return line, nil
+}
+
+// maxPassphraseLine bounds the line read as a passphrase (a wrong file,
+// or /dev/zero, is not read whole into memory).
+const maxPassphraseLine = 4096
+
+// firstLine reads r's first line without its line ending; io.EOF when r
+// is empty. A line longer than maxPassphraseLine bytes is an error.
+func firstLine(r io.Reader) (string, error) {
+	line, err := bufio.NewReader(io.LimitReader(r, maxPassphraseLine+2)).ReadString('\n')
+	if err != nil && (err != io.EOF || line == "") {
+		return "", err
+	}
+	line = strings.TrimSuffix(strings.TrimSuffix(line, "\n"), "\r")
+	if len(line) > maxPassphraseLine {
+		return "", fmt.Errorf("the first line is longer than %d bytes; want the bundle's passphrase on it", maxPassphraseLine)
+	}
+	return line, nil
+}
+
+// maxBundleBytes bounds what is read as a bundle: far above any logbook's
+// export (a record is at most 2 MiB, most are a few kB), it keeps a wrong
+// path such as /dev/zero from filling memory. A variable for the tests.
+var maxBundleBytes int64 = 1 << 30
+
+// readBundleFile reads the bundle at path, refusing one larger than
+// maxBundleBytes.
+func readBundleFile(path string) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, maxBundleBytes+1))
+	if err != nil {
+		return nil, fmt.Errorf("read %s: %w", path, err)
+	}
+	if int64(len(data)) > maxBundleBytes {
+		return nil, fmt.Errorf("%s: larger than %d bytes: not a logbook bundle", path, maxBundleBytes)
+	}
+	return data, nil
 }
 
 // PrintAudit writes the text summary: each transport, then the table,

@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -29,7 +30,7 @@ func TestAuditSpO2OptionsGivenOutOfRangeAreRefused(t *testing.T) {
 	} {
 		code, out, errs := runAudit(append([]string{bundle, "--passphrase-file", pass}, c.args...), "")
 		if code != ExitUsage || out != "" || !strings.Contains(errs, c.want) {
-			t.Errorf("%q: exit %d, stdout %d bytes, stderr %q; want exit %d and %q", c.args, code, len(out), firstLine(errs), ExitUsage, c.want)
+			t.Errorf("%q: exit %d, stdout %d bytes, stderr %q; want exit %d and %q", c.args, code, len(out), headLine(errs), ExitUsage, c.want)
 		}
 	}
 	// The edges of the range are accepted.
@@ -56,7 +57,7 @@ func TestAuditOutputsNamingTheSameFileAreRefused(t *testing.T) {
 	} {
 		code, _, errs := runAudit(append([]string{bundle, "--passphrase-file", pass}, args...), "")
 		if code != ExitUsage || !strings.Contains(errs, "same file") {
-			t.Errorf("%q: exit %d, stderr %q; want exit %d naming the same file", args, code, firstLine(errs), ExitUsage)
+			t.Errorf("%q: exit %d, stderr %q; want exit %d naming the same file", args, code, headLine(errs), ExitUsage)
 		}
 	}
 	if data, err := os.ReadFile(pass); err != nil || string(data) != auditPass+"\n" {
@@ -79,12 +80,12 @@ func TestAuditEmptyPassphraseIsAUsageError(t *testing.T) {
 		}
 		code, _, errs := runAudit([]string{bundle, "--passphrase-file", p}, "")
 		if code != ExitUsage || !strings.Contains(errs, p) || !strings.Contains(errs, "empty") {
-			t.Errorf("file %q: exit %d, stderr %q; want exit %d naming %s as empty", content, code, firstLine(errs), ExitUsage, p)
+			t.Errorf("file %q: exit %d, stderr %q; want exit %d naming %s as empty", content, code, headLine(errs), ExitUsage, p)
 		}
 	}
 	code, _, errs := runAudit([]string{bundle}, "\n")
 	if code != ExitUsage || !strings.Contains(errs, "standard input") || !strings.Contains(errs, "empty") {
-		t.Errorf("empty line on standard input: exit %d, stderr %q", code, firstLine(errs))
+		t.Errorf("empty line on standard input: exit %d, stderr %q", code, headLine(errs))
 	}
 	// A trailing newline, or CRLF, is the line ending, not part of the
 	// passphrase (the documented "first line of FILE").
@@ -97,7 +98,7 @@ func TestAuditEmptyPassphraseIsAUsageError(t *testing.T) {
 	}
 }
 
-func firstLine(s string) string {
+func headLine(s string) string {
 	line, _, _ := strings.Cut(s, "\n")
 	return line
 }
@@ -125,9 +126,52 @@ func TestAuditDateRangeRefusedAsTyped(t *testing.T) {
 	bundle, _ := demoCopy(t, dir)
 	code, _, errs := runAudit([]string{bundle, "--from", "2031-05-10", "--to", "2031-05-01"}, auditPass)
 	if want := "--to 2031-05-01: allowed a date on or after --from 2031-05-10"; code != ExitUsage || !strings.Contains(errs, want) {
-		t.Errorf("exit %d, stderr %q, want %q", code, firstLine(errs), want)
+		t.Errorf("exit %d, stderr %q, want %q", code, headLine(errs), want)
 	}
 	if code, out, errs := runAudit([]string{bundle, "--from", "2031-05-09", "--to", "2031-05-09"}, auditPass); code != ExitAuditOK || !strings.Contains(out, "Across transports (1)") {
-		t.Errorf("one day: exit %d, %s", code, firstLine(errs))
+		t.Errorf("one day: exit %d, %s", code, headLine(errs))
+	}
+}
+
+// TestAuditInputsAreReadWithinBounds: a passphrase file whose first line
+// is longer than any passphrase (a wrong file given) and a bundle larger
+// than the bundle limit are refused as usage errors naming the file and
+// the limit, without being read whole (a wrong path such as /dev/zero
+// would fill memory). Before, the long line was derived as a passphrase
+// and reported as a wrong passphrase.
+func TestAuditInputsAreReadWithinBounds(t *testing.T) {
+	dir := t.TempDir()
+	bundle, _ := demoCopy(t, dir)
+	long := filepath.Join(dir, "long.txt")
+	if err := os.WriteFile(long, []byte(strings.Repeat("x", 2*maxPassphraseLine)), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	code, _, errs := runAudit([]string{bundle, "--passphrase-file", long}, "")
+	if code != ExitUsage || !strings.Contains(errs, long) || !strings.Contains(errs, "longer than 4096 bytes") {
+		t.Errorf("long passphrase line: exit %d, stderr %q", code, headLine(errs))
+	}
+	code, _, errs = runAudit([]string{bundle}, strings.Repeat("y", 2*maxPassphraseLine)+"\n")
+	if code != ExitUsage || !strings.Contains(errs, "standard input") || !strings.Contains(errs, "longer than 4096 bytes") {
+		t.Errorf("long line on standard input: exit %d, stderr %q", code, headLine(errs))
+	}
+	// A passphrase of exactly the limit is read (and is wrong here).
+	exact := filepath.Join(dir, "exact.txt")
+	os.WriteFile(exact, []byte(strings.Repeat("x", maxPassphraseLine)+"\n"), 0o600)
+	if code, _, errs := runAudit([]string{bundle, "--passphrase-file", exact}, ""); code != ExitAuditPassphrase {
+		t.Errorf("passphrase of %d bytes: exit %d, %s", maxPassphraseLine, code, headLine(errs))
+	}
+	defer func(old int64) { maxBundleBytes = old }(maxBundleBytes)
+	st, err := os.Stat(bundle)
+	if err != nil {
+		t.Fatal(err)
+	}
+	maxBundleBytes = st.Size() - 1
+	code, _, errs = runAudit([]string{bundle}, auditPass+"\n")
+	if want := fmt.Sprintf("%s: larger than %d bytes", bundle, st.Size()-1); code != ExitUsage || !strings.Contains(errs, want) {
+		t.Errorf("bundle over the limit: exit %d, stderr %q, want %q", code, headLine(errs), want)
+	}
+	maxBundleBytes = st.Size()
+	if code, _, errs := runAudit([]string{bundle}, auditPass+"\n"); code != ExitAuditOK {
+		t.Errorf("bundle at the limit: exit %d, %s", code, headLine(errs))
 	}
 }

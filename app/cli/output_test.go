@@ -53,6 +53,6 @@ func TestPlanDoubleDashEndsOptions(t *testing.T) {
 	}
 	errb.Reset()
 	if code := Plan([]string{"-night.json"}, strings.NewReader(""), &out, &errb); code != ExitUsage || !strings.Contains(errb.String(), "unknown option -night.json") {
-		t.Errorf("without --: exit %d, stderr %q", code, firstLine(errb.String()))
+		t.Errorf("without --: exit %d, stderr %q", code, headLine(errb.String()))
 	}
 }
