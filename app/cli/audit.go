@@ -338,9 +338,10 @@ func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, err
 	return line, nil
 }
 
-// maxPassphraseLine bounds the line read as a passphrase (a wrong file,
-// or /dev/zero, is not read whole into memory).
-const maxPassphraseLine = 4096
+// maxPassphraseLine bounds the line read as a passphrase, so that a wrong
+// file, or /dev/zero, is not read whole into memory. The vault sets no
+// upper length; this is far above anything typed or pasted.
+const maxPassphraseLine = 64 << 10
 
 // firstLine reads r's first line without its line ending; io.EOF when r
 // is empty. A line longer than maxPassphraseLine bytes is an error.

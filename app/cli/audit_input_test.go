@@ -147,11 +147,11 @@ func TestAuditInputsAreReadWithinBounds(t *testing.T) {
 		t.Fatal(err)
 	}
 	code, _, errs := runAudit([]string{bundle, "--passphrase-file", long}, "")
-	if code != ExitUsage || !strings.Contains(errs, long) || !strings.Contains(errs, "longer than 4096 bytes") {
+	if code != ExitUsage || !strings.Contains(errs, long) || !strings.Contains(errs, fmt.Sprintf("longer than %d bytes", maxPassphraseLine)) {
 		t.Errorf("long passphrase line: exit %d, stderr %q", code, headLine(errs))
 	}
 	code, _, errs = runAudit([]string{bundle}, strings.Repeat("y", 2*maxPassphraseLine)+"\n")
-	if code != ExitUsage || !strings.Contains(errs, "standard input") || !strings.Contains(errs, "longer than 4096 bytes") {
+	if code != ExitUsage || !strings.Contains(errs, "standard input") || !strings.Contains(errs, fmt.Sprintf("longer than %d bytes", maxPassphraseLine)) {
 		t.Errorf("long line on standard input: exit %d, stderr %q", code, headLine(errs))
 	}
 	// A passphrase of exactly the limit is read (and is wrong here).
