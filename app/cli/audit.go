@@ -94,6 +94,14 @@ func Audit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "alvea audit: %v\n", err)
 		return ExitUsage
 	}
+	if a.passFile == "" {
+		// A file that is not a bundle is named before anyone is asked for
+		// a passphrase (with a passphrase file, OpenBundle says the same).
+		if err := logbook.CheckBundle(data); err != nil {
+			fmt.Fprintf(stderr, "alvea audit: %s: %v\n", filepath.Base(a.bundle), err)
+			return ExitAuditDamaged
+		}
+	}
 	pass, err := readPassphrase(a.passFile, stdin, stderr)
 	if err != nil {
 		fmt.Fprintf(stderr, "alvea audit: %v\n", err)

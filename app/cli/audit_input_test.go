@@ -175,3 +175,17 @@ func TestAuditInputsAreReadWithinBounds(t *testing.T) {
 		t.Errorf("bundle at the limit: exit %d, %s", code, headLine(errs))
 	}
 }
+
+// TestAuditNotABundleBeforePassphrase: a file that is not a bundle is
+// named, with why, before a passphrase is asked for or read (before, with
+// no passphrase given, it was refused for the missing passphrase, and on a
+// terminal the passphrase was asked for first).
+func TestAuditNotABundleBeforePassphrase(t *testing.T) {
+	dir := t.TempDir()
+	plan := filepath.Join(dir, "plan.json")
+	os.WriteFile(plan, []byte(`{"version": 1}`), 0o600)
+	code, _, errs := runAudit([]string{plan}, "")
+	if code != ExitAuditDamaged || !strings.Contains(errs, "plan.json") || !strings.Contains(errs, "not a logbook bundle") {
+		t.Errorf("exit %d, stderr %q", code, headLine(errs))
+	}
+}

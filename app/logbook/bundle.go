@@ -131,6 +131,15 @@ func parseBundle(data []byte) (*parsedBundle, error) {
 	return p, nil
 }
 
+// CheckBundle reads a bundle's structure without a passphrase: ErrBundle,
+// saying why, when data is not a readable bundle at all (the same test
+// OpenBundle makes first), so that a wrong file is named before anyone is
+// asked for a passphrase. A nil error says nothing about the records.
+func CheckBundle(data []byte) error {
+	_, err := parseBundle(data)
+	return err
+}
+
 // OpenBundle unlocks a bundle into a fresh in-memory store and verifies
 // everything: the whole-file check, the chain, every index and every body.
 // It returns ErrBundle if the data is not a bundle and ErrUnlock for a wrong
