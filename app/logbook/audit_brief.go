@@ -10,16 +10,19 @@ import (
 
 // Bounds of a plan result the audit will read. The plan engine refuses
 // documents outside its own ranges (1–50 legs, 1–2 880 min each, residual
-// 0–1 000 psi, SpO2 target 80–100 %), so a stored result outside them was
-// not produced by it. maxResultLpm is a sanity bound well above any
-// device's flow in the plan (the highest is a ventilator's total, 140 L/min),
-// not a clinical limit.
+// 0–1 000 psi or 0–70 bar, SpO2 target 80–100 %), so a stored result
+// outside them was not produced by it. maxResultLpm is a sanity bound well
+// above any device's flow in the plan (the highest is a ventilator's
+// total, 140 L/min), not a clinical limit.
 const (
 	maxResultLegs    = 50
 	maxResultMinutes = 2880
-	maxResultPsi     = 1000
 	maxResultLpm     = 1000
 )
+
+// maxResultPsi is the highest residual a plan can give, in the result's
+// psi: 70 bar (1 015.3 psi, above the 1 000 psi limit in psi), rounded up.
+var maxResultPsi = decimal.NewFromFloat(physio.Bar(70).Psi()).Ceil()
 
 // implausibleResult says why a decoded Brief result cannot be one the plan
 // engine produced, or "" when it can. A bundle is read from outside: fields
@@ -66,8 +69,8 @@ func implausibleResult(r *physio.PlanResult) string {
 	if r.OxygenNeededL.Cmp(r.OxygenCalculatedL.Decimal) < 0 {
 		return fmt.Sprintf("need with reserve %s L is below the calculated need %s L", r.OxygenNeededL, r.OxygenCalculatedL)
 	}
-	if outside(r.ResidualPsi.Decimal, zero, decimal.NewFromInt(maxResultPsi)) {
-		return fmt.Sprintf("residual %s psi (0 to %d psi)", r.ResidualPsi, maxResultPsi)
+	if outside(r.ResidualPsi.Decimal, zero, maxResultPsi) {
+		return fmt.Sprintf("residual %s psi (0 to %s psi)", r.ResidualPsi, maxResultPsi)
 	}
 	if outside(r.SpO2TargetPercent.Decimal, decimal.NewFromInt(80), decimal.NewFromInt(100)) {
 		return fmt.Sprintf("SpO2 target %s %% (80 to 100 %%)", r.SpO2TargetPercent)

@@ -21,6 +21,12 @@ func TestAuditRefusesImplausibleBriefResult(t *testing.T) {
 	if p := decodeBrief(Timed[Brief]{Seq: 1, At: at, Value: *good}); p.result == nil {
 		t.Fatalf("an engine result is refused: %s", p.err)
 	}
+	// At the plan's edges: a residual of 70 bar (the document's limit in
+	// bar) is 1 015 psi in the result, above the 1 000 psi limit in psi.
+	edge := demoBrief(t, strings.Replace(demoRotorPlan, `"residual_psi": 200`, `"residual_bar": 70`, 1))
+	if p := decodeBrief(Timed[Brief]{Seq: 2, At: at, Value: *edge}); p.result == nil {
+		t.Errorf("an engine result with a 70 bar residual is refused: %s", p.err)
+	}
 	var fields map[string]json.RawMessage
 	if err := json.Unmarshal(good.Result, &fields); err != nil {
 		t.Fatal(err)
