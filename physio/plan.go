@@ -959,6 +959,7 @@ func (c *planComputer) limits() {
 	}
 
 	c.unplannedFields()
+	c.cabinBelowFields()
 
 	limitFt := CabinAltitudeLimit.Feet()
 	cabinWarned, fieldWarned := false, map[string]bool{}
@@ -1020,6 +1021,38 @@ func (c *planComputer) unplannedFields() {
 		}
 		c.warn(WarnFieldAboveLegs, SeverityCaution, -1, field+" is needed there to hold the ground state; add a "+f.where+" leg with its set-up")
 	}
+}
+
+// cabinBelowFields cautions when the flight's cabin altitude (from the
+// cruise, or a cabin altitude stated) lies below both
+// fields. A flight between two fields can dip below both (down a valley),
+// but a figure below both is more often a slip: a wrong digit, a sign,
+// metres typed as feet. The FiO2 the flight legs need is computed at that
+// altitude, so a slip there under-states it. The numbers are not changed:
+// the crew checks the figure. A pressurised cabin is held at or above the
+// origin, so it is below both only when the cruise itself is.
+func (c *planComputer) cabinBelowFields() {
+	if c.cabin == nil || !(*c.cabin < min(c.origin, c.destination)) {
+		return
+	}
+	leg := -1
+	for i, l := range c.doc.Legs {
+		if l.Where == WhereCabin {
+			leg = i
+			break
+		}
+	}
+	if leg < 0 {
+		return // no flight leg: nothing is computed at the cabin altitude
+	}
+	what := "the cruise altitude and its unit"
+	if c.doc.Route.CabinAltitudeFt != nil {
+		what = "the stated cabin altitude and its unit"
+	}
+	cabin := num(c.cabin.Feet(), 0, RoundUp).String()
+	c.warn(WarnCabinBelowFields, SeverityCaution, leg, "cabin altitude "+cabin+" ft is below both fields (origin "+
+		num(c.origin.Feet(), 0, RoundUp).String()+" ft, destination "+num(c.destination.Feet(), 0, RoundUp).String()+
+		" ft): check "+what+"; the flight legs are computed at "+cabin+" ft")
 }
 
 // oxygen: need with reserve, usable supply, margin, cylinder changes.

@@ -70,6 +70,7 @@ const (
 	WarnCabinAbove8000Ft   = "CABIN_ABOVE_8000FT"        // caution: cabin above 8 000 ft (14 CFR 25.841(a))
 	WarnFieldAbove8000Ft   = "FIELD_ABOVE_8000FT"        // caution: a ground leg above 8 000 ft
 	WarnFieldAboveLegs     = "FIELD_ABOVE_LEGS"          // caution: a field with no leg of its own lies above every leg
+	WarnCabinBelowFields   = "CABIN_BELOW_FIELDS"        // caution: the flight's cabin altitude lies below both fields
 	WarnOutsideValidity    = "OUTSIDE_VALIDITY"          // caution: an input outside a method's validity
 	WarnSpO2PaO2Disagree   = "SPO2_PAO2_DISAGREE"        // caution: the SpO2 and PaO2 given disagree on the standard curve
 	WarnCylinderAtResidual = "CYLINDER_AT_RESIDUAL"      // caution: a cylinder already at or below the safe residual

@@ -385,3 +385,45 @@ func TestPlanMeasuredAtDestinationWithFlight(t *testing.T) {
 		t.Error("cannula 2 L/min (0.24) holds 0.23")
 	}
 }
+
+// A flight whose cabin altitude lies below both fields is flagged (a
+// plausibility check of our own, not a published value): an unpressurised
+// cruise of −2000 ft between fields at 5400 ft and 1800 ft, and a stated
+// cabin altitude likewise. The numbers stay as given: the flight leg is at
+// −2000 ft. A cruise between the two fields (down a valley) and a
+// pressurised cabin held at the origin are not flagged; a pressurised
+// aircraft cruising below both fields is (its cabin is at the cruise).
+func TestPlanCabinBelowFields(t *testing.T) {
+	doc := `{"version": 1,
+ "route": {"origin_elevation_ft": 5400, "destination_elevation_ft": 1800, ROUTE},
+ "legs": [{"where": "origin", "minutes": 10, "oxygen": {"device": "nasal_cannula", "flow_lpm": 2}},
+          {"where": "cabin", "minutes": 40, "oxygen": {"device": "nasal_cannula", "flow_lpm": 2}}],
+ "patient": {"fio2": 0.21, "pao2_mmhg": 60}, "supply": []}`
+	plan := func(route string) *PlanResult {
+		return mustPlan(t, strings.Replace(doc, "ROUTE", route, 1))
+	}
+	r := plan(`"cruise_altitude_ft": -2000`)
+	w := planWarning(r, WarnCabinBelowFields)
+	if w == nil || w.Severity != SeverityCaution || w.Leg == nil || *w.Leg != 1 ||
+		!strings.Contains(w.Message, "cabin altitude -2000 ft is below both fields (origin 5400 ft, destination 1800 ft)") ||
+		!strings.Contains(w.Message, "check the cruise altitude") {
+		t.Fatalf("want CABIN_BELOW_FIELDS on leg 2 naming −2000 ft and both fields; got %v", r.Warnings)
+	}
+	if r.Status == StatusGo {
+		t.Errorf("status %s with a caution", r.Status)
+	}
+	exact(t, "cabin leg altitude_ft", r.Legs[1].AltitudeFt, "-2000")
+
+	r = plan(`"cabin_altitude_ft": 1000`)
+	if w := planWarning(r, WarnCabinBelowFields); w == nil || !strings.Contains(w.Message, "check the stated cabin altitude") {
+		t.Errorf("stated cabin 1000 ft: want CABIN_BELOW_FIELDS naming the stated cabin altitude; got %v", r.Warnings)
+	}
+	if r := plan(`"cruise_altitude_ft": 1000, "max_differential_psi": 4`); !hasWarning(r, WarnCabinBelowFields) {
+		t.Errorf("pressurised, cruise 1000 ft: want CABIN_BELOW_FIELDS; got %v", r.Warnings)
+	}
+	for _, route := range []string{`"cruise_altitude_ft": 4000`, `"cruise_altitude_ft": 1800`, `"cruise_altitude_ft": 25000, "max_differential_psi": 4`} {
+		if r := plan(route); hasWarning(r, WarnCabinBelowFields) {
+			t.Errorf("%s: CABIN_BELOW_FIELDS, want none: %v", route, r.Warnings)
+		}
+	}
+}
