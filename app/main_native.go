@@ -8,8 +8,11 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"net"
 	"os"
 	"os/signal"
+	"strconv"
+	"strings"
 	"syscall"
 
 	"alvea/app/cli"
@@ -67,6 +70,10 @@ func serveCmd(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "alvea serve: unexpected argument %q\n", fs.Arg(0))
 		return exitUsage
 	}
+	if err := checkAddr(*addr); err != nil {
+		fmt.Fprintf(stderr, "alvea serve: %v\n", err)
+		return exitUsage
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	if err := server.Serve(ctx, *addr, *root, stdout); err != nil {
@@ -88,6 +95,10 @@ func staticCmd(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "alvea static: unexpected argument %q\n", fs.Arg(0))
 		return exitUsage
 	}
+	if strings.TrimSpace(*out) == "" {
+		fmt.Fprintln(stderr, "alvea static: -out is empty: give the directory to write the site into")
+		return exitUsage
+	}
 	version, err := server.WriteStatic(*out, *root)
 	if err != nil {
 		fmt.Fprintf(stderr, "alvea static: %v\n", err)
@@ -95,6 +106,24 @@ func staticCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	fmt.Fprintf(stdout, "alvea static: wrote version %s to %s\n", version, *out)
 	return 0
+}
+
+// checkAddr checks serve's -addr before anything listens: host:port, the
+// host given (an empty host, as in ":8000", listens on every network
+// interface; 0.0.0.0 says so on purpose), the port a number from 0 (any
+// free port) to 65535.
+func checkAddr(addr string) error {
+	host, port, err := net.SplitHostPort(addr)
+	if err != nil {
+		return fmt.Errorf("-addr %q is not host:port (for example 127.0.0.1:8000)", addr)
+	}
+	if host == "" {
+		return fmt.Errorf("-addr %q names no host: it would listen on every network interface; give 127.0.0.1:%s for this device only, or 0.0.0.0:%s to listen on every interface on purpose", addr, port, port)
+	}
+	if n, err := strconv.Atoi(port); err != nil || n < 0 || n > 65535 || port != strconv.Itoa(n) {
+		return fmt.Errorf("-addr %q: the port must be a number from 0 (any free port) to 65535", addr)
+	}
+	return nil
 }
 
 // flagStatus maps a flag parse error to an exit status: -h is success.

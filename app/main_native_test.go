@@ -27,6 +27,15 @@ func TestDispatchUsage(t *testing.T) {
 		{[]string{"serve", "extra"}, 2, `unexpected argument "extra"`},
 		{[]string{"static", "-out"}, 2, "flag needs an argument"},
 		{[]string{"static", "a", "b"}, 2, `unexpected argument "a"`},
+		// -addr is checked before anything listens: an empty host would
+		// listen on every interface.
+		{[]string{"serve", "-addr", ""}, 2, `-addr "" is not host:port`},
+		{[]string{"serve", "-addr", ":8000"}, 2, "would listen on every network interface"},
+		{[]string{"serve", "-addr", "nonsense"}, 2, `-addr "nonsense" is not host:port`},
+		{[]string{"serve", "-addr", "127.0.0.1:99999"}, 2, "the port must be a number from 0 (any free port) to 65535"},
+		{[]string{"serve", "-addr", "127.0.0.1:-1"}, 2, "from 0 (any free port) to 65535"},
+		{[]string{"serve", "-addr", "127.0.0.1:http"}, 2, "the port must be a number"},
+		{[]string{"static", "-out", ""}, 2, "-out is empty"},
 		{[]string{"help"}, 0, "usage: alvea"},
 		{[]string{"serve", "-h"}, 0, "-addr"},
 	}
