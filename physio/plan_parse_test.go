@@ -126,3 +126,22 @@ func TestParsePlanAcceptedEdges(t *testing.T) {
 		}
 	}
 }
+
+// A refused number far outside its range is written with an exponent, as
+// the document may give it, not in 309 digits (1e308 is JSON's largest
+// order of magnitude; both limits are the document's own).
+func TestPlanRefusalWritesHugeNumbersShort(t *testing.T) {
+	doc := `{"version": 1,
+ "route": {"origin_elevation_ft": 1e308, "destination_elevation_ft": 0, "cruise_altitude_ft": 1000},
+ "legs": [{"where": "cabin", "minutes": 1e-9, "oxygen": {"device": "nasal_cannula", "flow_lpm": 2}}],
+ "patient": {"fio2": 0.21, "pao2_mmhg": 80}, "supply": []}`
+	_, err := ParsePlan([]byte(doc))
+	if err == nil {
+		t.Fatal("accepted")
+	}
+	for _, want := range []string{"route.origin_elevation_ft: 1e+308 is above the 18000 ft limit", "legs[0].minutes: 1e-09 is below the 1 min minimum"} {
+		if !strings.Contains(err.Error(), want) {
+			t.Errorf("error %q lacks %q", err, want)
+		}
+	}
+}

@@ -111,7 +111,16 @@ type planValidator struct {
 	raw  map[string]string // number text as written, where float64 could not hold it
 }
 
-func fmtPlanNum(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+// fmtPlanNum writes a number of the document as it is read: in full
+// ("18001", "0.005"), or with an exponent when that would run past 15
+// digits ("1e+308", "1e-09"), so a refused 1e308 does not fill the screen
+// with 309 digits.
+func fmtPlanNum(v float64) string {
+	if a := math.Abs(v); a != 0 && (a >= 1e15 || a < 1e-6) {
+		return strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64)
+}
 
 func (l planLimit) unitSuffix() string {
 	if l.unit == "" {
