@@ -481,6 +481,11 @@ func (w *planWalker) number(path string, n *jsonNode) *float64 {
 		w.fail(path, ErrSyntax, "%s is not a usable number%s", n.text, planKeyUnit(path))
 		return nil
 	}
+	if v == 0 && strings.ContainsAny(strings.SplitN(strings.ToLower(n.text), "e", 2)[0], "123456789") {
+		// Too small for float64 (1e-400) and read as 0: a message names
+		// it with the text as written, not as 0.
+		w.raw[path] = n.text
+	}
 	return &v
 }
 

@@ -144,4 +144,11 @@ func TestPlanRefusalWritesHugeNumbersShort(t *testing.T) {
 			t.Errorf("error %q lacks %q", err, want)
 		}
 	}
+	// Too small for float64: read as 0, named as written.
+	_, err = ParsePlan([]byte(strings.Replace(doc, `"minutes": 1e-9`, `"minutes": 1e-400`, 1)))
+	for _, want := range []string{"legs[0].minutes: 1e-400 is below the 1 min minimum"} {
+		if !strings.Contains(err.Error(), want) {
+			t.Errorf("error %q lacks %q", err, want)
+		}
+	}
 }
