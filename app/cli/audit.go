@@ -38,7 +38,8 @@ arrival, patient course, deviations) and across transports.
 
 options:
   --passphrase-file FILE  read the passphrase from the first line of FILE
-                          (only the line ending is removed)
+                          (only the line ending, and a byte-order mark an
+                          editor put at the start, are removed)
                           (otherwise: asked on the terminal without echo, or
                           one line read from standard input)
   --csv FILE              write the table as CSV (no identifying columns
@@ -302,8 +303,9 @@ func samePath(x, y string) bool {
 }
 
 // readPassphrase takes the first line of file; else, on a terminal, asks
-// without echo; else reads one line from stdin. Only the line ending is
-// removed: spaces may belong to the passphrase. An empty passphrase is an
+// without echo; else reads one line from stdin. Only the line ending (and
+// in a file a leading byte-order mark) is removed: spaces may belong to
+// the passphrase. An empty passphrase is an
 // error naming where it was read (no vault has one; it is most likely the
 // wrong file), not a key derivation ending in "wrong passphrase".
 func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, error) {
@@ -314,6 +316,9 @@ func readPassphrase(file string, stdin io.Reader, stderr io.Writer) (string, err
 		}
 		defer f.Close()
 		line, err := firstLine(f)
+		// A byte-order mark is what some editors write first in a UTF-8
+		// file; it is never typed into the app's passphrase field.
+		line = strings.TrimPrefix(line, "\ufeff")
 		switch {
 		case err != nil:
 			return "", fmt.Errorf("%s: %w", file, err)

@@ -96,6 +96,16 @@ func TestAuditEmptyPassphraseIsAUsageError(t *testing.T) {
 			t.Errorf("passphrase + %q: exit %d, %s", ending, code, errs)
 		}
 	}
+	// A file an editor saved with a byte-order mark first (U+FEFF, as
+	// EF BB BF in UTF-8) holds the same passphrase; a mark anywhere else,
+	// or a leading space, stays part of it.
+	for content, want := range map[string]int{"\ufeff" + auditPass + "\r\n": ExitAuditOK, " " + auditPass: ExitAuditPassphrase, auditPass + "\ufeff": ExitAuditPassphrase} {
+		p := filepath.Join(dir, "bom.txt")
+		os.WriteFile(p, []byte(content), 0o600)
+		if code, _, errs := runAudit([]string{bundle, "--passphrase-file", p}, ""); code != want {
+			t.Errorf("passphrase file %q: exit %d, want %d (%s)", content, code, want, headLine(errs))
+		}
+	}
 }
 
 func headLine(s string) string {
