@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"regexp"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -137,9 +138,14 @@ func (r rangeRule) Range() string {
 
 // Check parses text as a decimal (a comma is accepted as the decimal mark)
 // and returns it, or a message naming the field, the allowed range and the
-// unit. Values are never clamped.
+// unit. Values are never clamped. A comma between groups of three digits
+// ("8,000") is refused: English writes thousands so, and reading it as a
+// decimal mark would take 8000 ft for 8 ft without a word.
 func (r rangeRule) Check(text string) (decimal.Decimal, string) {
-	t := strings.TrimSpace(strings.ReplaceAll(text, ",", "."))
+	if thousandsComma(text) {
+		return decimal.Decimal{}, fmt.Sprintf("%s: %q could be read as thousands or with a decimal comma. Type it without the thousands comma: a number %s.", r.Label, text, r.Range())
+	}
+	t := strings.TrimSpace(commaDecimal(text))
 	if t == "" {
 		return decimal.Decimal{}, fmt.Sprintf("%s is required: enter a number %s.", r.Label, r.Range())
 	}
@@ -154,6 +160,26 @@ func (r rangeRule) Check(text string) (decimal.Decimal, string) {
 		return decimal.Decimal{}, fmt.Sprintf("%s must be %s (you entered %s %s).", r.Label, r.Range(), t, r.Unit)
 	}
 	return v, ""
+}
+
+// thousandsGroups matches a whole number whose digits are grouped in
+// threes by commas ("2,000", "-1,500", "1,000,000").
+var thousandsGroups = regexp.MustCompile(`^[+-]?[1-9][0-9]{0,2}(,[0-9]{3})+$`)
+
+// thousandsComma reports whether text reads as digits grouped by commas,
+// which a decimal comma would misread (the SI Brochure, 9th ed. §5.4.4,
+// groups digits with spaces only for this reason).
+func thousandsComma(text string) bool {
+	return thousandsGroups.MatchString(strings.TrimSpace(text))
+}
+
+// commaDecimal turns a decimal comma into a point; text with commas between
+// thousands is left as typed, for Check to refuse.
+func commaDecimal(text string) string {
+	if thousandsComma(text) {
+		return text
+	}
+	return strings.ReplaceAll(text, ",", ".")
 }
 
 // FieldErrors maps a field id to the message shown beside it.

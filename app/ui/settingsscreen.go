@@ -84,11 +84,11 @@ func (s *settingsScreen) edit(ctx app.Context, field, text string) {
 		return
 	}
 	delete(s.messages, field)
-	next.SafeResidual = strings.ReplaceAll(next.SafeResidual, ",", ".")
-	next.ReserveFactor = strings.ReplaceAll(next.ReserveFactor, ",", ".")
-	next.ReserveMinutes = strings.ReplaceAll(next.ReserveMinutes, ",", ".")
-	next.SpO2Target = strings.ReplaceAll(next.SpO2Target, ",", ".")
-	next.AutoLockMinutes = strings.ReplaceAll(next.AutoLockMinutes, ",", ".")
+	next.SafeResidual = commaDecimal(next.SafeResidual)
+	next.ReserveFactor = commaDecimal(next.ReserveFactor)
+	next.ReserveMinutes = commaDecimal(next.ReserveMinutes)
+	next.SpO2Target = commaDecimal(next.SpO2Target)
+	next.AutoLockMinutes = commaDecimal(next.AutoLockMinutes)
 	s.save(ctx, next)
 }
 
@@ -117,8 +117,8 @@ func (s *settingsScreen) pick(ctx app.Context, what, value string) {
 func (s *settingsScreen) addCylinder(ctx app.Context, e app.Event) {
 	c := s.newCyl
 	c.Name = strings.TrimSpace(c.Name)
-	c.WaterCapacity = strings.ReplaceAll(strings.TrimSpace(c.WaterCapacity), ",", ".")
-	c.FullPressure = strings.ReplaceAll(strings.TrimSpace(c.FullPressure), ",", ".")
+	c.WaterCapacity = commaDecimal(strings.TrimSpace(c.WaterCapacity))
+	c.FullPressure = commaDecimal(strings.TrimSpace(c.FullPressure))
 	s.cylMsgs = c.Validate()
 	for _, existing := range s.saved.Cylinders {
 		if strings.EqualFold(existing.Name, c.Name) && c.Name != "" {

@@ -314,9 +314,9 @@ func (s *supply) commit(ctx app.Context, timeEdit bool) bool {
 	r := SupplyReading{
 		AtUnixMilli: now.UnixMilli(),
 		Cylinder:    in,
-		Gauge:       strings.ReplaceAll(strings.TrimSpace(s.gaugeText), ",", "."),
+		Gauge:       commaDecimal(strings.TrimSpace(s.gaugeText)),
 		GaugeUnit:   unit,
-		Flow:        strings.ReplaceAll(strings.TrimSpace(s.flowText), ",", "."),
+		Flow:        commaDecimal(strings.TrimSpace(s.flowText)),
 	}
 	merge := s.session.merges(in, now)
 	// A time alone, typed after the correction window while the fields
@@ -440,7 +440,10 @@ func (s *supply) setStartGauge(ctx app.Context, i int, text string) {
 	if i < 0 || i >= len(s.session.Cylinders) {
 		return
 	}
-	s.session.Cylinders[i].Gauge = strings.ReplaceAll(strings.TrimSpace(text), ",", ".")
+	// Kept as typed: read through gaugeRule's Check wherever it is used, so
+	// the comma of "1,800" is not turned into a decimal point mid-typing
+	// (after "1," the field showed "1." and the reading became 1.8 psi).
+	s.session.Cylinders[i].Gauge = strings.TrimSpace(text)
 	s.session.Cylinders[i].GaugeUnit = s.settings.PressureUnit
 	saveSupplySession(ctx, s.session)
 }
