@@ -62,3 +62,35 @@ func TestAuditThousandsCommaRefused(t *testing.T) {
 	b.typeInto("#supply-cyl-0-gauge", "1,800")
 	refused("#supply-cyl-0-gauge", "1,800", "Gauge reading", "between 0 and 3000 psi")
 }
+
+// The start of transport reads the patient's weight as a plain decimal:
+// "7e1" and "0x1p6" (exponent and hexadecimal forms Go's strconv.ParseFloat
+// documents) were saved as 70 and 64 kg with no word. Refused now, naming
+// the field and its unit, with the form as typed and nothing saved.
+func TestAuditLogbookWeightPlainDecimal(t *testing.T) {
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+	b.tap("#lb-nav-start")
+	b.waitLB("the start form", `document.querySelector("#lb-start") !== null`, 10*time.Second)
+	b.typeInto("#lb-vehicle", "Audit van")
+	b.typeInto("#lb-origin", "Ridge post")
+	b.typeInto("#lb-dest", "Harbour ward")
+	for _, typed := range []string{"7e1", "0x1p6"} {
+		b.typeInto("#lb-weight", typed)
+		b.tap("#lb-start-go")
+		b.waitFor("the weight message", `(document.querySelector("#lb-weight-msg")?.textContent ?? "") !== ""`, 10*time.Second)
+		if msg := b.text("#lb-weight-msg"); !strings.Contains(msg, "Weight") || !strings.Contains(msg, typed) || !strings.Contains(msg, "kilograms") {
+			t.Errorf("weight %q: message %q", typed, msg)
+		}
+		if b.exists("#lb-timeline li[data-seq]") {
+			t.Fatalf("weight %q: the transport was saved", typed)
+		}
+		for sel, want := range map[string]string{"#lb-weight": typed, "#lb-vehicle": "Audit van", "#lb-origin": "Ridge post", "#lb-dest": "Harbour ward"} {
+			if got := b.value(sel); got != want {
+				t.Errorf("after the refusal of %q, %s shows %q, want %q", typed, sel, got, want)
+			}
+		}
+	}
+}

@@ -33,3 +33,27 @@ func TestRangeRuleThousandsComma(t *testing.T) {
 		}
 	}
 }
+
+// Respiratory and heart rate on the Logbook are plain decimals, as every
+// other field: Go's strconv.ParseFloat (its documentation lists the forms)
+// also reads exponents ("1e1"), hexadecimal floats ("0x1p6" = 64),
+// underscores in prefixed numbers and "Inf"/"NaN", which saved a heart
+// rate of 64 /min from "0x1p6" with no word.
+func TestLogbookRatesPlainDecimal(t *testing.T) {
+	for _, typed := range []string{"1e1", "0x1p6", "0x_1p6", "Inf", "+Inf", "infinity", "NaN", "1E2"} {
+		for _, f := range []lbObsForm{{rr: typed}, {hr: typed}} {
+			o, err := lbReadObservation(f, UnitMmHg)
+			if err == nil {
+				t.Errorf("rates %+v read as %v/%v, want a refusal", f, o.RespRate, o.HeartRate)
+				continue
+			}
+			if !strings.Contains(err.Error(), typed) || !strings.Contains(err.Error(), "per minute") {
+				t.Errorf("rates %+v: message %q lacks the text typed or the unit", f, err)
+			}
+		}
+	}
+	o, err := lbReadObservation(lbObsForm{rr: "16", hr: "72.5"}, UnitMmHg)
+	if err != nil || o.RespRate == nil || *o.RespRate != 16 || o.HeartRate == nil || *o.HeartRate != 72.5 {
+		t.Fatalf("plain rates 16 and 72.5: %+v, %v", o, err)
+	}
+}

@@ -443,10 +443,13 @@ func lbReadObservation(f lbObsForm, gasUnit string) (*logbook.Observation, error
 		dst         **float64
 	}{{"Respiratory rate", f.rr, &o.RespRate}, {"Heart rate", f.hr, &o.HeartRate}} {
 		if t := strings.TrimSpace(n.text); t != "" {
-			v, err := strconv.ParseFloat(t, 64)
-			if err != nil {
+			// A plain decimal (bareDecimal): strconv would take "1e1" or
+			// "0x1p6" as 10 and 64 a minute without a word.
+			d, ok := bareDecimal(t)
+			if !ok {
 				return nil, fmt.Errorf("%s: %q is not a number (per minute)", n.label, t)
 			}
+			v := d.InexactFloat64()
 			*n.dst = &v
 		}
 	}

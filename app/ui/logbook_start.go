@@ -229,11 +229,13 @@ func (l *logbookScreen) startTransport(ctx app.Context, e app.Event) {
 	f.originMsg, f.destMsg = om, dm
 	var weight float64
 	if t := strings.TrimSpace(f.weight); t != "" {
-		w, err := strconv.ParseFloat(t, 64)
-		if err != nil {
+		// A plain decimal, as every other field reads: strconv would take
+		// "7e1", "0x1p6" or "Inf" as a weight without a word.
+		w, ok := bareDecimal(t)
+		if !ok {
 			f.weightMsg = fmt.Sprintf("Weight: %q is not a number of kilograms.", t)
 		}
-		weight = w
+		weight = w.InexactFloat64()
 	}
 	if strings.TrimSpace(f.vehicle) == "" {
 		f.vehicleMsg = "Name the vehicle or aircraft type."
