@@ -81,7 +81,7 @@ func TestAuditLogbookWeightPlainDecimal(t *testing.T) {
 		b.typeInto("#lb-weight", typed)
 		b.tap("#lb-start-go")
 		b.waitFor("the weight message", `(document.querySelector("#lb-weight-msg")?.textContent ?? "") !== ""`, 10*time.Second)
-		if msg := b.text("#lb-weight-msg"); !strings.Contains(msg, "Weight") || !strings.Contains(msg, typed) || !strings.Contains(msg, "kilograms") {
+		if msg := b.text("#lb-weight-msg"); !strings.Contains(msg, "Weight") || !strings.Contains(msg, typed) || !strings.Contains(msg, "Allowed: 0.2 to 400 kg.") {
 			t.Errorf("weight %q: message %q", typed, msg)
 		}
 		if b.exists("#lb-timeline li[data-seq]") {

@@ -504,6 +504,36 @@ func checkText(field, s string, max int) error {
 	return nil
 }
 
+// numericRanges are the ranges Validate checks numeric fields against,
+// by field name, for a form that must say what is allowed before it has
+// anything to validate (a value it could not read as a number).
+var numericRanges = map[string]struct {
+	min, max float64
+	unit     string
+}{
+	"open.origin.elevation_m":      {minElevationM, maxElevationM, "m"},
+	"open.destination.elevation_m": {minElevationM, maxElevationM, "m"},
+	"open.patient.weight_kg":       {0.2, maxWeightKg, "kg"},
+	"gauge.pressure_pa":            {0, maxGaugePa, "Pa"},
+	"observe.spo2":                 {0.3, 1, "fraction"},
+	"observe.fio2":                 {minFiO2, maxFi, "fraction"},
+	"observe.flow_lpm":             {0, maxFlowLPM, "L/min"},
+	"observe.resp_rate":            {0, maxRespRate, "/min"},
+	"observe.heart_rate":           {0, maxHeartRate, "/min"},
+	"observe.etco2_pa":             {0, maxEtCO2Pa, "Pa"},
+}
+
+// AllowedRange returns what Validate allows for a numeric field, worded as
+// its FieldError's Allowed ("0 to 3.1e+07 Pa"), or "" for a field with no
+// numeric range.
+func AllowedRange(field string) string {
+	r, ok := numericRanges[field]
+	if !ok {
+		return ""
+	}
+	return fmt.Sprintf("%g to %g %s", r.min, r.max, r.unit)
+}
+
 func checkFloat(field string, v, min, max float64, unit string) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) || v < min || v > max {
 		return &FieldError{Field: field, Value: fmt.Sprintf("%g %s", v, unit), Allowed: fmt.Sprintf("%g to %g %s", min, max, unit)}

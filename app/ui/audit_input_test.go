@@ -47,8 +47,8 @@ func TestLogbookRatesPlainDecimal(t *testing.T) {
 				t.Errorf("rates %+v read as %v/%v, want a refusal", f, o.RespRate, o.HeartRate)
 				continue
 			}
-			if !strings.Contains(err.Error(), typed) || !strings.Contains(err.Error(), "per minute") {
-				t.Errorf("rates %+v: message %q lacks the text typed or the unit", f, err)
+			if !strings.Contains(err.Error(), typed) || !strings.Contains(err.Error(), "Allowed: 0 to ") || !strings.Contains(err.Error(), " /min.") {
+				t.Errorf("rates %+v: message %q lacks the text typed, the range or the unit", f, err)
 			}
 		}
 	}

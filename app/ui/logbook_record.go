@@ -402,7 +402,7 @@ func (l *logbookScreen) saveGauge(ctx app.Context, e app.Event) {
 func lbGaugeEntry(cylinder, text, unit string) (*logbook.Entry, error) {
 	p, err := physio.ParsePressure(lbWithUnit(text, unit))
 	if err != nil {
-		return nil, fmt.Errorf("Gauge reading: %s", err.Error())
+		return nil, lbParseRefusal("Gauge reading", "gauge.pressure_pa", text, err)
 	}
 	return &logbook.Entry{Kind: logbook.KindGauge, Gauge: &logbook.GaugeReading{Cylinder: strings.TrimSpace(cylinder), Pressure: p}}, nil
 }
@@ -413,41 +413,41 @@ func lbReadObservation(f lbObsForm, gasUnit string) (*logbook.Observation, error
 	if t := strings.TrimSpace(f.spo2); t != "" {
 		v, err := physio.ParseFraction(lbWithUnit(t, "%"))
 		if err != nil {
-			return nil, fmt.Errorf("SpO2: %s", err.Error())
+			return nil, lbParseRefusal("SpO2", "observe.spo2", t, err)
 		}
 		o.SpO2 = &v
 	}
 	if t := strings.TrimSpace(f.fio2); t != "" {
 		v, err := physio.ParseFraction(t)
 		if err != nil {
-			return nil, fmt.Errorf("FiO2: %s", err.Error())
+			return nil, lbParseRefusal("FiO2", "observe.fio2", t, err)
 		}
 		o.FiO2 = &v
 	}
 	if t := strings.TrimSpace(f.flow); t != "" {
 		v, err := physio.ParseFlow(lbWithUnit(t, "L/min"))
 		if err != nil {
-			return nil, fmt.Errorf("O2 flow: %s", err.Error())
+			return nil, lbParseRefusal("O2 flow", "observe.flow_lpm", t, err)
 		}
 		o.Flow = &v
 	}
 	if t := strings.TrimSpace(f.etco2); t != "" {
 		v, err := physio.ParsePressure(lbWithUnit(t, gasUnit))
 		if err != nil {
-			return nil, fmt.Errorf("EtCO2: %s", err.Error())
+			return nil, lbParseRefusal("EtCO2", "observe.etco2_pa", t, err)
 		}
 		o.EtCO2 = &v
 	}
 	for _, n := range []struct {
-		label, text string
-		dst         **float64
-	}{{"Respiratory rate", f.rr, &o.RespRate}, {"Heart rate", f.hr, &o.HeartRate}} {
+		label, field, text string
+		dst                **float64
+	}{{"Respiratory rate", "observe.resp_rate", f.rr, &o.RespRate}, {"Heart rate", "observe.heart_rate", f.hr, &o.HeartRate}} {
 		if t := strings.TrimSpace(n.text); t != "" {
 			// A plain decimal (bareDecimal): strconv would take "1e1" or
 			// "0x1p6" as 10 and 64 a minute without a word.
 			d, ok := bareDecimal(t)
 			if !ok {
-				return nil, fmt.Errorf("%s: %q is not a number (per minute)", n.label, t)
+				return nil, errors.New(lbNotANumber(n.label, n.field, t))
 			}
 			v := d.InexactFloat64()
 			*n.dst = &v

@@ -2,7 +2,6 @@ package ui
 
 import (
 	"encoding/json"
-	"fmt"
 	"strconv"
 	"strings"
 	"time"
@@ -206,15 +205,20 @@ func (l *logbookScreen) renderStart() app.UI {
 	)
 }
 
-// lbReadPlace reads a place's elevation in the display unit ("" = not given).
-func lbReadPlace(name, elev, unit string) (logbook.Place, string) {
+// lbReadPlace reads a place's elevation in the display unit ("" = not
+// given); which is "origin" or "destination", for the message.
+func lbReadPlace(which, name, elev, unit string) (logbook.Place, string) {
 	p := logbook.Place{Name: strings.TrimSpace(name)}
 	if strings.TrimSpace(elev) == "" {
 		return p, ""
 	}
 	a, err := physio.ParseAltitude(lbWithUnit(elev, unit))
 	if err != nil {
-		return p, err.Error()
+		label := "Origin elevation"
+		if which == "destination" {
+			label = "Destination elevation"
+		}
+		return p, lbParseRefusal(label, "open."+which+".elevation_m", elev, err).Error()
 	}
 	p.Elevation, p.ElevationKnown = a, true
 	return p, ""
@@ -224,8 +228,8 @@ func (l *logbookScreen) startTransport(ctx app.Context, e app.Event) {
 	e.PreventDefault()
 	f := &l.start
 	au := l.units.AltitudeUnit
-	origin, om := lbReadPlace(f.origin, f.originElev, au)
-	dest, dm := lbReadPlace(f.dest, f.destElev, au)
+	origin, om := lbReadPlace("origin", f.origin, f.originElev, au)
+	dest, dm := lbReadPlace("destination", f.dest, f.destElev, au)
 	f.originMsg, f.destMsg = om, dm
 	var weight float64
 	if t := strings.TrimSpace(f.weight); t != "" {
@@ -233,7 +237,7 @@ func (l *logbookScreen) startTransport(ctx app.Context, e app.Event) {
 		// "7e1", "0x1p6" or "Inf" as a weight without a word.
 		w, ok := bareDecimal(t)
 		if !ok {
-			f.weightMsg = fmt.Sprintf("Weight: %q is not a number of kilograms.", t)
+			f.weightMsg = lbNotANumber("Weight", "open.patient.weight_kg", t)
 		}
 		weight = w.InexactFloat64()
 	}

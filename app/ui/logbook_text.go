@@ -123,7 +123,70 @@ func lbFieldMessage(fe *logbook.FieldError) string {
 	if label == "" {
 		label = fe.Field
 	}
-	return fmt.Sprintf("%s: not saved. Allowed: %s.", label, fe.Allowed)
+	return fmt.Sprintf("%s: not saved. Allowed: %s.", label, lbAllowedShown(fe.Field, fe.Allowed))
+}
+
+// lbAllowedShown gives what the vault allows for a field (allowed, as its
+// FieldError words it) in the units the crew types the field in. The vault
+// checks SI units (Pa, m, a fraction); the forms take psi or bar, mmHg or
+// kPa, ft or m, and SpO2 in %. Both units of a pair are given, since the
+// message does not know which one the crew uses. The bounds are rounded
+// inward (the low one up, the high one down), so every value in the range
+// shown is accepted.
+func lbAllowedShown(field, allowed string) string {
+	var lo, hi float64
+	var unit string
+	if n, err := fmt.Sscanf(allowed, "%g to %g %s", &lo, &hi, &unit); err != nil || n != 3 {
+		return allowed
+	}
+	in := func(conv func(float64) float64, places int32, u string) string {
+		l, ok1 := physio.Round(conv(lo), places, physio.RoundUp)
+		h, ok2 := physio.Round(conv(hi), places, physio.RoundDown)
+		if !ok1 || !ok2 {
+			return allowed
+		}
+		return l.String() + " to " + h.String() + " " + u
+	}
+	pa := func(f func(physio.Pressure) float64) func(float64) float64 {
+		return func(v float64) float64 { return f(physio.Pascals(v)) }
+	}
+	switch {
+	case unit == "Pa" && strings.HasPrefix(field, "gauge."):
+		return in(pa(physio.Pressure.Psi), 0, "psi") + " (" + in(pa(physio.Pressure.Bar), 1, "bar") + ")"
+	case unit == "Pa":
+		return in(pa(physio.Pressure.MmHg), 0, "mmHg") + " (" + in(pa(physio.Pressure.Kilopascals), 1, "kPa") + ")"
+	case unit == "m":
+		return in(func(v float64) float64 { return physio.Metres(v).Feet() }, 0, "ft") + " (" + in(func(v float64) float64 { return v }, 0, "m") + ")"
+	case unit == "fraction" && field == "observe.spo2":
+		return in(func(v float64) float64 { return v * 100 }, 0, "%")
+	}
+	return allowed
+}
+
+// lbParseRefusal words a value a form could not read (err from physio's
+// parser): the field, the text as typed, and what is allowed in the crew's
+// units, never the parser's own wording.
+func lbParseRefusal(label, field, text string, err error) error {
+	allowed := lbAllowedShown(field, logbook.AllowedRange(field))
+	t := strings.TrimSpace(text)
+	switch {
+	case errors.Is(err, physio.ErrUnit):
+		return fmt.Errorf("%s: %q is not in a unit this field takes. Allowed: %s.", label, t, allowed)
+	case errors.Is(err, physio.ErrOutOfRange):
+		return fmt.Errorf("%s: %q is outside what is allowed: %s.", label, t, allowed)
+	}
+	return errors.New(lbNotANumber(label, field, text))
+}
+
+// lbNotANumber is the message for a field whose text could not be read as
+// a number: the field, the text as typed, and what is allowed in the
+// crew's units.
+func lbNotANumber(label, field, text string) string {
+	msg := fmt.Sprintf("%s: %q is not a number.", label, strings.TrimSpace(text))
+	if allowed := logbook.AllowedRange(field); allowed != "" {
+		msg += " Allowed: " + lbAllowedShown(field, allowed) + "."
+	}
+	return msg
 }
 
 func unavailableMessage(err error) string {

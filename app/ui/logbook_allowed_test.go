@@ -1,0 +1,60 @@
+package ui
+
+import (
+	"errors"
+	"strings"
+	"testing"
+	"time"
+
+	"alvea/app/logbook"
+	"alvea/physio"
+)
+
+// The Logbook's refusals give the allowed range in the units the crew
+// types, not the vault's SI units. Check values from the exact unit
+// definitions (REFERENCES, Units): the vault's 31e6 Pa gauge limit is
+// 31e6 / 6894.757293168 = 4496.2 psi → 4496 psi (rounded inward) and
+// 310 bar; its 20 000 Pa EtCO2 limit is 20000 / 133.322387415 = 150.01
+// mmHg → 150 mmHg, and 20 kPa; its −500 to 6000 m elevations are
+// −1640.4 → −1640 ft and 19685.04 → 19685 ft (0.3048 m per ft); SpO2
+// 0.3 to 1 is 30 to 100 %.
+func TestLogbookRefusalsInCrewUnits(t *testing.T) {
+	t0 := time.Date(2026, 6, 14, 9, 0, 0, 0, time.UTC)
+	id := logbook.NewTransportID(t0)
+	over := &logbook.Entry{Transport: id, At: t0, Kind: logbook.KindGauge, Gauge: &logbook.GaugeReading{Cylinder: "A", Pressure: physio.Psi(4600)}}
+	var fe *logbook.FieldError
+	if err := over.Validate(); !errors.As(err, &fe) {
+		t.Fatalf("4600 psi: %v, want a FieldError", err)
+	}
+	if got, want := vaultMessage(fe), "Gauge reading: not saved. Allowed: 0 to 4496 psi (0 to 310 bar)."; got != want {
+		t.Errorf("4600 psi: %q, want %q", got, want)
+	}
+	for _, c := range []struct {
+		err  error
+		want []string
+	}{
+		{func() error { _, err := lbGaugeEntry("A", "1e999", UnitPsi); return err }(),
+			[]string{`Gauge reading: "1e999" is not a number.`, "Allowed: 0 to 4496 psi (0 to 310 bar)."}},
+		{func() error { _, err := lbGaugeEntry("A", "12 kg", UnitPsi); return err }(),
+			[]string{`Gauge reading: "12 kg" is not in a unit this field takes.`, "0 to 4496 psi"}},
+		{func() error { _, err := lbReadObservation(lbObsForm{etco2: "abc"}, UnitMmHg); return err }(),
+			[]string{`EtCO2: "abc" is not a number.`, "Allowed: 0 to 150 mmHg (0 to 20 kPa)."}},
+		{func() error { _, err := lbReadObservation(lbObsForm{spo2: "x"}, UnitMmHg); return err }(),
+			[]string{`SpO2: "x" is not a number.`, "Allowed: 30 to 100 %."}},
+		{func() error { _, msg := lbReadPlace("origin", "Field", "NaN", UnitFeet); return errors.New(msg) }(),
+			[]string{`Origin elevation: "NaN" is not a number.`, "Allowed: -1640 to 19685 ft (-500 to 6000 m)."}},
+	} {
+		if c.err == nil {
+			t.Errorf("accepted, want %q", c.want)
+			continue
+		}
+		for _, w := range c.want {
+			if !strings.Contains(c.err.Error(), w) {
+				t.Errorf("%q lacks %q", c.err, w)
+			}
+		}
+		if strings.Contains(c.err.Error(), "physio") || strings.Contains(c.err.Error(), " Pa") {
+			t.Errorf("%q shows the parser's wording or the vault's unit", c.err)
+		}
+	}
+}
