@@ -325,8 +325,6 @@ func unitHint(spec fieldSpec) string {
 		return " (or with a unit: ft, m)"
 	case qDiff, qGauge, qGas:
 		return " (or with a unit: psi, bar, kPa, mmHg)"
-	case qFlow:
-		return " (L/min)"
 	case qMinutes:
 		return " (or a duration: 1 h 30 min)"
 	case qTempC:
@@ -360,7 +358,9 @@ func rangeText(spec fieldSpec, disp string) string {
 	case qFraction:
 		return fmt.Sprintf("a fraction between %s and %s (or %s to %s %%)", fmtNum(lo), fmtNum(hi), fmtNum(lo*100), fmtNum(hi*100))
 	case qPlain:
-		unit = spec.Unit
+		// An abbreviation's full stop ("cyl.") would double the
+		// sentence's own.
+		unit = strings.TrimSuffix(spec.Unit, ".")
 	}
 	if unit == "" {
 		return fmt.Sprintf("a number between %s and %s", fmtNum(lo), fmtNum(hi))

@@ -58,3 +58,36 @@ func TestLogbookRefusalsInCrewUnits(t *testing.T) {
 		}
 	}
 }
+
+// A damaged bundle's count reads "1 problem", "2 problems" (as the
+// command line's audit says it), never "problem(s)".
+func TestLogbookDamageCount(t *testing.T) {
+	one := &logbook.DamageError{Problems: []logbook.Problem{{Seq: 3, Detail: "body hash does not match index"}}}
+	two := &logbook.DamageError{Problems: append(one.Problems, logbook.Problem{Seq: 4, Detail: "missing"})}
+	for err, want := range map[error]string{one: "(1 problem)", two: "(2 problems)"} {
+		if got := vaultMessage(err); !strings.Contains(got, want) || strings.Contains(got, "(s)") {
+			t.Errorf("%d problems: %q, want %q", len(err.(*logbook.DamageError).Problems), got, want)
+		}
+	}
+}
+
+// The Brief's refusals end in one full stop and name a unit once: the
+// cylinder count's "cyl." lost its own full stop inside the sentence
+// ("20 cyl.."), and a flow said "6 L/min (L/min)".
+func TestBriefRefusalWording(t *testing.T) {
+	for _, c := range []struct {
+		spec fieldSpec
+		text string
+		disp string
+	}{
+		{specCount, "25", "cyl."},
+		{specCount, "x", "cyl."},
+		{flowSpec(physio.NasalCannula), "x", "L/min"},
+		{flowSpec(physio.NasalCannula), "9", "L/min"},
+	} {
+		msg := readEntry(c.spec, Entry{T: c.text}, c.disp, true).Msg
+		if msg == "" || strings.Contains(msg, "..") || strings.Contains(msg, "L/min (L/min)") || !strings.HasSuffix(msg, ".") {
+			t.Errorf("%s %q: %q", c.spec.Label, c.text, msg)
+		}
+	}
+}

@@ -106,7 +106,11 @@ func (l *logbookScreen) verify(ctx app.Context, e app.Event) {
 		case len(problems) == 0:
 			l.manage.checked = "Every record checked: no problem found."
 		default:
-			l.manage.checked = fmt.Sprintf("%d problem(s) found. First: %s.", len(problems), problems[0].String())
+			found := "1 problem found"
+			if len(problems) != 1 {
+				found = fmt.Sprintf("%d problems found", len(problems))
+			}
+			l.manage.checked = fmt.Sprintf("%s. First: %s.", found, problems[0].String())
 		}
 	})
 }

@@ -42,7 +42,11 @@ func vaultMessage(err error) string {
 		if len(de.Problems) > 0 {
 			first = " First: " + de.Problems[0].String() + "."
 		}
-		return fmt.Sprintf("The bundle failed its check (%d problem(s)): it was changed or damaged. Nothing was written.%s", len(de.Problems), first)
+		problems := "1 problem"
+		if n := len(de.Problems); n != 1 {
+			problems = fmt.Sprintf("%d problems", n)
+		}
+		return fmt.Sprintf("The bundle failed its check (%s): it was changed or damaged. Nothing was written.%s", problems, first)
 	case errors.Is(err, logbook.ErrVaultExists):
 		return "A vault already exists on this device. A bundle is imported into an empty logbook only."
 	case errors.Is(err, logbook.ErrNoVault):
