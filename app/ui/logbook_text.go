@@ -2,11 +2,12 @@ package ui
 
 import (
 	"errors"
-
 	"fmt"
-	"github.com/maxence-charriere/go-app/v10/pkg/app"
+	"strconv"
 	"strings"
 	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	"alvea/app/logbook"
 	"alvea/app/logbook/idb"
@@ -138,11 +139,18 @@ func lbFieldMessage(fe *logbook.FieldError) string {
 // inward (the low one up, the high one down), so every value in the range
 // shown is accepted.
 func lbAllowedShown(field, allowed string) string {
-	var lo, hi float64
-	var unit string
-	if n, err := fmt.Sscanf(allowed, "%g to %g %s", &lo, &hi, &unit); err != nil || n != 3 {
+	// "LO to HI UNIT" (read without fmt's scanner, which app.wasm does not
+	// otherwise carry).
+	f := strings.Fields(allowed)
+	if len(f) != 4 || f[1] != "to" {
 		return allowed
 	}
+	lo, err1 := strconv.ParseFloat(f[0], 64)
+	hi, err2 := strconv.ParseFloat(f[2], 64)
+	if err1 != nil || err2 != nil {
+		return allowed
+	}
+	unit := f[3]
 	in := func(conv func(float64) float64, places int32, u string) string {
 		l, ok1 := physio.Round(conv(lo), places, physio.RoundUp)
 		h, ok2 := physio.Round(conv(hi), places, physio.RoundDown)
