@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"errors"
 	"strings"
 	"testing"
@@ -88,6 +89,17 @@ func TestBriefRefusalWording(t *testing.T) {
 		msg := readEntry(c.spec, Entry{T: c.text}, c.disp, true).Msg
 		if msg == "" || strings.Contains(msg, "..") || strings.Contains(msg, "L/min (L/min)") || !strings.HasSuffix(msg, ".") {
 			t.Errorf("%s %q: %q", c.spec.Label, c.text, msg)
+		}
+	}
+}
+
+// A file that is not a bundle is refused saying why, as the vault found it
+// (logbook.OpenBundle's reasons), and that nothing was written.
+func TestLogbookImportSaysWhy(t *testing.T) {
+	for data, want := range map[string]string{"": "(the file is empty)", "hello, not a bundle": "(not a logbook bundle"} {
+		_, err := logbook.OpenBundle(context.Background(), []byte(data), "any passphrase at all")
+		if got := vaultMessage(err); !strings.Contains(got, want) || !strings.HasSuffix(got, "Nothing was written.") {
+			t.Errorf("%q: %q, want it to contain %q", data, got, want)
 		}
 	}
 }

@@ -37,7 +37,12 @@ func vaultMessage(err error) string {
 	case errors.As(err, &fe):
 		return lbFieldMessage(fe)
 	case errors.Is(err, logbook.ErrBundle):
-		return "This file is not a logbook bundle this version can read. Nothing was written."
+		// The vault says why after its sentinel ("…: the file is empty").
+		why := ""
+		if _, after, ok := strings.Cut(err.Error(), logbook.ErrBundle.Error()+": "); ok {
+			why = " (" + after + ")"
+		}
+		return "This file is not a logbook bundle this version can read" + why + ". Nothing was written."
 	case errors.As(err, &de):
 		first := ""
 		if len(de.Problems) > 0 {
