@@ -10,10 +10,42 @@ import (
 	"time"
 
 	"github.com/chromedp/cdproto/emulation"
+	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
 
 	"alvea/physio"
 )
+
+// supplyOnOpenTransport starts the app with the tablet's zone fixed to
+// Asia/Kathmandu (UTC+05:45 all year, no summer time: the IANA time zone
+// database), a Brief with two E cylinders at 2000 psi, a logbook with a
+// transport opened 30 minutes back, and opens Supply on it. pageScript,
+// when given, runs in every page before its own scripts.
+func supplyOnOpenTransport(t *testing.T, pageScript string) (*browser, *time.Location) {
+	t.Helper()
+	draft, patient, _ := altitudeDraftScenario()
+	srv := startApp(t, repoRoot)
+	b := newBrowser(t, t.TempDir())
+	if _, err := chromedp.Call(b.ctx, emulation.SetTimezoneOverride, emulation.SetTimezoneOverrideParams{TimezoneID: "Asia/Kathmandu"}); err != nil {
+		t.Fatalf("time zone override: %v", err)
+	}
+	if pageScript != "" {
+		if _, err := chromedp.Call(b.ctx, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: pageScript}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	zone := time.FixedZone("UTC+05:45", 5*3600+45*60)
+	b.seedDraft(srv, draft, patient)
+	b.openLogbook(srv.URL("/logbook"))
+	b.createVault(testPass)
+	opened := time.Now().In(zone).Add(-30 * time.Minute)
+	b.startTransportWith(lbStart{vehicle: "Twin turboprop", crew: "ef gh", origin: "Harbour field", originElev: "20",
+		dest: "Ridge clinic", destElev: "1900", openedAt: opened.Format("15:04")})
+	b.tap("#tab-supply")
+	b.waitFor("the open transport on Supply", `document.querySelector("#supply-log-open") !== null`, 20*time.Second)
+	b.toTop()
+	return b, zone
+}
 
 // A gauge reading given the time it was read, in the browser (Supply's
 // Read at, the Logbook's rule: DEVELOPERS.md, late entries). A transport
@@ -30,24 +62,7 @@ import (
 // (UTC+05:45 all year, no summer time: the IANA time zone database), an
 // offset no UTC reading could pass for.
 func TestSupplyReadAtInBrowser(t *testing.T) {
-	draft, patient, _ := altitudeDraftScenario() // two E cylinders at 2000 psi
-	srv := startApp(t, repoRoot)
-	b := newBrowser(t, t.TempDir())
-	if _, err := chromedp.Call(b.ctx, emulation.SetTimezoneOverride, emulation.SetTimezoneOverrideParams{TimezoneID: "Asia/Kathmandu"}); err != nil {
-		t.Fatalf("time zone override: %v", err)
-	}
-	zone := time.FixedZone("UTC+05:45", 5*3600+45*60)
-	b.seedDraft(srv, draft, patient)
-	b.openLogbook(srv.URL("/logbook"))
-	b.createVault(testPass)
-
-	opened := time.Now().In(zone).Add(-30 * time.Minute)
-	b.startTransportWith(lbStart{vehicle: "Twin turboprop", crew: "ef gh", origin: "Harbour field", originElev: "20",
-		dest: "Ridge clinic", destElev: "1900", openedAt: opened.Format("15:04")})
-
-	b.tap("#tab-supply")
-	b.waitFor("the open transport on Supply", `document.querySelector("#supply-log-open") !== null`, 20*time.Second)
-	b.toTop()
+	b, zone := supplyOnOpenTransport(t, "")
 	if b.exists("#supply-log-at") {
 		t.Error("the logbook card still has its own time control")
 	}

@@ -9,10 +9,6 @@ import (
 	"testing"
 	"time"
 
-	"github.com/chromedp/cdproto/emulation"
-	"github.com/chromedp/cdproto/page"
-	"github.com/chromedp/chromedp"
-
 	"alvea/physio"
 )
 
@@ -48,26 +44,7 @@ const clockShift = `(() => {
 // the logbook holds a correction of the reading at the earlier time. The
 // zone is Asia/Kathmandu (UTC+05:45, no summer time: the IANA database).
 func TestSupplyRetimeShownReadingInBrowser(t *testing.T) {
-	draft, patient, _ := altitudeDraftScenario() // two E cylinders at 2000 psi
-	srv := startApp(t, repoRoot)
-	b := newBrowser(t, t.TempDir())
-	if _, err := chromedp.Call(b.ctx, emulation.SetTimezoneOverride, emulation.SetTimezoneOverrideParams{TimezoneID: "Asia/Kathmandu"}); err != nil {
-		t.Fatalf("time zone override: %v", err)
-	}
-	if _, err := chromedp.Call(b.ctx, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: clockShift}); err != nil {
-		t.Fatal(err)
-	}
-	zone := time.FixedZone("UTC+05:45", 5*3600+45*60)
-	b.seedDraft(srv, draft, patient)
-	b.openLogbook(srv.URL("/logbook"))
-	b.createVault(testPass)
-	opened := time.Now().In(zone).Add(-30 * time.Minute)
-	b.startTransportWith(lbStart{vehicle: "Twin turboprop", crew: "ij kl", origin: "Harbour field", originElev: "20",
-		dest: "Ridge clinic", destElev: "1900", openedAt: opened.Format("15:04")})
-
-	b.tap("#tab-supply")
-	b.waitFor("the open transport on Supply", `document.querySelector("#supply-log-open") !== null`, 20*time.Second)
-	b.toTop()
+	b, zone := supplyOnOpenTransport(t, clockShift)
 	b.typeInto("#supply-gauge", "1500")
 	b.typeInto("#supply-flow", "10")
 	minutes, ms := supplyExpect(t, physio.Psi(1500), physio.Psi(200), 10)
