@@ -523,6 +523,14 @@ var numericRanges = map[string]struct {
 	"observe.etco2_pa":             {0, maxEtCO2Pa, "Pa"},
 }
 
+// NumericRange returns the range Validate checks a numeric field against,
+// in the vault's unit (Pa, m, kg, L/min, /min, or "fraction"); ok is false
+// for a field without one.
+func NumericRange(field string) (min, max float64, unit string, ok bool) {
+	r, ok := numericRanges[field]
+	return r.min, r.max, r.unit, ok
+}
+
 // AllowedRange returns what Validate allows for a numeric field, worded as
 // its FieldError's Allowed ("0 to 3.1e+07 Pa"), or "" for a field with no
 // numeric range.

@@ -3,7 +3,6 @@ package ui
 import (
 	"errors"
 	"fmt"
-	"strconv"
 	"strings"
 	"time"
 
@@ -136,26 +135,18 @@ func lbFieldMessage(fe *logbook.FieldError) string {
 	return fmt.Sprintf("%s: not saved. Allowed: %s.", label, lbAllowedShown(fe.Field, fe.Allowed))
 }
 
-// lbAllowedShown gives what the vault allows for a field (allowed, as its
-// FieldError words it) in the units the crew types the field in. The vault
-// checks SI units (Pa, m, a fraction); the forms take psi or bar, mmHg or
-// kPa, ft or m, and SpO2 in %. Both units of a pair are given, since the
-// message does not know which one the crew uses. The bounds are rounded
-// inward (the low one up, the high one down), so every value in the range
-// shown is accepted.
+// lbAllowedShown gives what the vault allows for a field in the units
+// the crew types the field in (allowed is the vault's own wording, kept
+// for a field with no numeric range). The vault checks SI units (Pa, m, a
+// fraction); the forms take psi or bar, mmHg or kPa, ft or m, and SpO2 in
+// %. Both units of a pair are given, since the message does not know which
+// one the crew uses. The bounds are rounded inward (the low one up, the
+// high one down), so every value in the range shown is accepted.
 func lbAllowedShown(field, allowed string) string {
-	// "LO to HI UNIT" (read without fmt's scanner, which app.wasm does not
-	// otherwise carry).
-	f := strings.Fields(allowed)
-	if len(f) != 4 || f[1] != "to" {
+	lo, hi, unit, ok := logbook.NumericRange(field)
+	if !ok {
 		return allowed
 	}
-	lo, err1 := strconv.ParseFloat(f[0], 64)
-	hi, err2 := strconv.ParseFloat(f[2], 64)
-	if err1 != nil || err2 != nil {
-		return allowed
-	}
-	unit := f[3]
 	in := func(conv func(float64) float64, places int32, u string) string {
 		l, ok1 := physio.Round(conv(lo), places, physio.RoundUp)
 		h, ok2 := physio.Round(conv(hi), places, physio.RoundDown)
